@@ -51,6 +51,19 @@ constexpr bool is_proportional(ValveKind kind) {
          kind == ValveKind::kProportional43SignedCommand;
 }
 
+/// Flow paths of a 4/3 spool in its centre position (common practice, no
+/// source): the core does not meter by it, but the plant model, the checker
+/// and the reports read it from here, the one place it is written.
+enum class ValveCentre : std::uint8_t {
+  kNotApplicable = 0,  ///< 4/2 valves have no centre
+  kClosed,        ///< P, T, A, B all blocked
+  kTandem,        ///< P to T, A and B blocked
+  kFloat,         ///< P blocked, A and B to T
+  kOpen,          ///< P, T, A and B all joined
+  kBleed,         ///< P blocked, A and B bleed to T through small orifices ("motor" spool)
+  kRegenerative,  ///< P, A and B joined, T blocked
+};
+
 enum class RampProfile : std::uint8_t {
   kLinear = 0,
   kSCurve = 1,  ///< jerk-limited: acceleration rises over jerk_us
@@ -80,6 +93,7 @@ struct SolenoidCurrent {
 struct FunctionConfig {
   Name name;
   ValveKind valve = ValveKind::kSolenoid43SpringCentred;
+  ValveCentre centre = ValveCentre::kClosed;
   std::uint8_t coil_extend = kNoIndex8;   ///< solenoid kinds: coil for P->A
   std::uint8_t coil_retract = kNoIndex8;  ///< solenoid kinds: coil for P->B (none on 4/2 spring return)
   std::uint8_t prop_extend = kNoIndex8;   ///< two-solenoid proportional: channel for P->A; signed: the one channel
