@@ -1,0 +1,91 @@
+#pragma once
+/// Host-side loader for spoolstep machine files ("format": "spoolstep-machine/1").
+/// It turns a JSON machine file into the core's plain-data MachineConfig, or
+/// into a list of errors, each naming the file, the JSON pointer (RFC 6901),
+/// the reason and what to do. Nothing is half-loaded: on any error there is
+/// no machine.
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <ostream>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "spoolstep/core/config.hpp"
+
+namespace spoolstep::machine_file {
+
+/// The format tag every machine file must carry in "format".
+inline constexpr const char* kFormatTag = "spoolstep-machine/1";
+
+/// One problem in a machine file.
+struct LoadError {
+  std::string file;       ///< the file name as given (or the display name)
+  std::string json_path;  ///< RFC 6901 pointer, "" for the whole document
+  std::string reason;     ///< what is wrong, with the offending value
+  std::string hint;       ///< what to do about it
+
+  /// "file: /json/path: reason. hint" (the path is left out when empty).
+  std::string to_string() const;
+};
+
+/// A successfully loaded machine.
+struct LoadedMachine {
+  core::MachineConfig config;
+  /// The raw "plant" section, or null when the file has none. The plant
+  /// model (hostsim) owns and validates its contents.
+  nlohmann::json plant;
+  std::string source_path;
+};
+
+struct LoadResult {
+  std::unique_ptr<LoadedMachine> machine;  ///< null whenever errors is non-empty
+  std::vector<LoadError> errors;
+  /// True when the machine loaded without any error.
+  bool ok() const { return machine != nullptr && errors.empty(); }
+};
+
+/// Reads and loads a machine file. A missing or unreadable file and JSON
+/// syntax errors (with line and column) are reported as errors too.
+LoadResult load_machine_file(const std::string& path);
+
+/// Loads a machine file from text; `display_name` is used as the file name
+/// in errors and as source_path.
+LoadResult load_machine_text(const std::string& text, const std::string& display_name);
+
+/// Human-readable summary of a configuration: I/O points, functions with
+/// valve kind, centre and ramps, interlocks with guards, two-hand devices,
+/// sequence steps and transitions, conditions written out readably.
+std::string summarize(const core::MachineConfig& config);
+
+/// Writes the Markdown parameter reference generated from the parameter
+/// table (see parameters.hpp).
+void write_parameter_reference(std::ostream& out);
+
+/// Name lookups; each returns the index of the named item, or nullopt.
+std::optional<std::uint8_t> find_digital_input(const core::MachineConfig& config, std::string_view name);
+/// Index of the named analog input, or nullopt.
+std::optional<std::uint8_t> find_analog_input(const core::MachineConfig& config, std::string_view name);
+/// Index of the named on/off output (coil), or nullopt.
+std::optional<std::uint8_t> find_coil(const core::MachineConfig& config, std::string_view name);
+/// Index of the named proportional output channel, or nullopt.
+std::optional<std::uint8_t> find_prop_output(const core::MachineConfig& config, std::string_view name);
+/// Index of the named function, or nullopt.
+std::optional<std::uint8_t> find_function(const core::MachineConfig& config, std::string_view name);
+/// Index of the named sequence step, or nullopt.
+std::optional<std::uint8_t> find_step(const core::MachineConfig& config, std::string_view name);
+/// Index of the named interlock, or nullopt.
+std::optional<std::uint8_t> find_interlock(const core::MachineConfig& config, std::string_view name);
+/// Index of the named two-hand device, or nullopt.
+std::optional<std::uint8_t> find_two_hand(const core::MachineConfig& config, std::string_view name);
+/// Index of the named ramp of function `function`, or nullopt.
+std::optional<std::uint8_t> find_ramp(const core::MachineConfig& config, std::uint8_t function,
+                                      std::string_view name);
+
+/// The text of a fixed-size core name.
+std::string_view name_view(const core::Name& name);
+
+}  // namespace spoolstep::machine_file
