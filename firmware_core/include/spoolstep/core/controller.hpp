@@ -6,6 +6,9 @@
 
 #include "spoolstep/core/config.hpp"
 #include "spoolstep/core/io_image.hpp"
+#include "spoolstep/core/machine_state.hpp"
+#include "spoolstep/core/ramp.hpp"
+#include "spoolstep/core/two_hand.hpp"
 #include "spoolstep/core/status.hpp"
 
 namespace spoolstep::core {
@@ -29,45 +32,48 @@ class Controller {
   const Diagnostics& diagnostics() const { return diag_; }
 
  private:
+  enum class StopKind : std::uint8_t { kNone = 0, kQuick, kImmediate };
   struct NodeState {
     bool value = false;
-    bool held = false;          // debounce: the stable output
-    std::uint32_t timer_us = 0; // elapsed of the running timer
-  };
-  struct TwoHandState {
-    std::uint8_t phase = 0;  // see two_hand.cpp
-    std::uint32_t since_first_us = 0;
+    bool held = false;           // debounce: the stable output
+    std::uint32_t timer_us = 0;  // elapsed of the node's timer
   };
   struct FunctionRuntime {
-    float command = 0.0f;       // ramped signed speed -1..1
-    float rate = 0.0f;          // S-curve: d(command)/dt in 1/s
-    std::uint32_t dwell_us = 0; // time spent centred since the last motion
-    Direction last_side = Direction::kNone;  // side of the last motion, for the reversal dwell
-    std::uint32_t pulse_us = 0; // detented: time the current pulse has been on
-    Direction pulse_side = Direction::kNone;
+    RampState ramp;                            // proportional: signed command and its rate
+    std::uint8_t ramp_index = 0;               // ramp of the current or last motion
+    Direction side = Direction::kNone;         // side energised / metered in the last scan
+    Direction last_side = Direction::kNone;    // last side that was not none
+    std::uint32_t centred_us = 0;              // time with side none, for the reversal dwell
+    Direction pulse_side = Direction::kNone;   // detented: coil pulse in progress
+    std::uint32_t pulse_us = 0;
+    Direction demand = Direction::kNone;
+    float speed = 0.0f;                        // demanded |speed| 0..1
+    StopKind stop = StopKind::kNone;
+    bool waiting_reversal = false;
+    bool jog_released = false;  // manual: the jog was seen released since entering manual
   };
 
-  void reset_runtime();
   void evaluate_conditions(const InputImage& inputs, std::uint32_t dt_us);
   bool node(std::uint16_t index) const { return index != kNoCondition && nodes_[index].value; }
-  bool rising(std::uint16_t index, bool hmi, bool& previous);
+  bool edge(bool value, bool& previous) const;
   void check_inputs(const InputImage& inputs, std::uint32_t now_us);
   void raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t detail,
                    StopCategory category, std::uint32_t now_us);
-  void clear_faults(std::uint32_t now_us);
   void update_two_hand(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
   void update_interlocks(std::uint32_t now_us);
   void update_machine_state(const InputImage& inputs, std::uint32_t now_us);
+  void apply_event(MachineEvent event, std::uint32_t now_us);
   void run_sequence(std::uint32_t dt_us, std::uint32_t now_us);
   void update_power_unit(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
-  void decide_demands(const InputImage& inputs);
-  void drive_functions(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us,
-                       OutputImage& outputs);
-  void write_function_outputs(std::uint8_t index, OutputImage& outputs);
-  void set_state(MachineState next, std::uint32_t now_us);
+  void decide_demands(const InputImage& inputs, std::uint32_t now_us);
+  void drive_function(std::uint8_t index, std::uint32_t dt_us);
+  void write_outputs(OutputImage& outputs) const;
+  void enforce_output_invariants(OutputImage& outputs, std::uint32_t now_us);
   void log(std::uint32_t now_us, EventCode code, std::uint8_t subject, std::uint16_t detail);
   std::uint16_t first_unmet(std::uint16_t index) const;
-  StopCategory worst_active_category() const;
+  bool any_fault() const { return diag_.fault_count > 0 || diag_.faults_overflowed; }
+  StopCategory worst_category() const;
+  bool power_removed() const;
   bool all_stopped() const;
 
   const MachineConfig* config_ = nullptr;
@@ -75,17 +81,16 @@ class Controller {
   bool first_scan_ = true;
   std::uint32_t previous_now_us_ = 0;
   std::array<NodeState, kMaxConditionNodes> nodes_{};
-  std::array<TwoHandState, kMaxTwoHandDevices> two_hand_{};
+  std::array<TwoHandStep, kMaxTwoHandDevices> two_hand_{};
   std::array<FunctionRuntime, kMaxFunctions> functions_{};
-  std::array<float, kMaxFunctions> speed_{};  // demanded |speed| 0..1 this scan
-  std::array<std::uint8_t, kMaxFunctions> ramp_{};
-  std::array<StopCategory, kMaxFunctions> stop_category_{};  // how a blocked function stops
   bool prev_reset_ = false;
   bool prev_cycle_start_ = false;
   bool prev_pump_start_ = false;
-  std::uint32_t blocked_motions_ = 0;
-  std::uint32_t permissive_stop_cat0_ = 0;  // motions whose lost permissive stops at once
+  std::uint32_t blocked_motions_ = 0;    // motions held off by a permissive
+  std::uint32_t immediate_motions_ = 0;  // of those, the ones whose permissive stops in category 0
   std::uint32_t pump_elapsed_us_ = 0;
+  bool supervision_raised_ = false;
+  bool continuous_command_ = false;
   Diagnostics diag_{};
 };
 

@@ -69,6 +69,7 @@ enum class FaultCode : std::uint8_t {
   kScanWatchdog,        ///< detail: none (the late interval is in the event)
   kPressureNotReady,    ///< power unit did not reach pressure in time
   kConfigInvalid,       ///< the configuration failed the core's own check
+  kOutputInvariant,     ///< the output check caught two solenoids of one valve on: all outputs forced off
 };
 
 enum class AnalogFaultReason : std::uint8_t {
@@ -84,6 +85,7 @@ struct Fault {
   std::uint16_t detail = 0;
   StopCategory category = StopCategory::kCat0;
   std::uint32_t raised_at_us = 0;
+  bool cause_present = false;  ///< the cause was seen this scan; a reset cannot clear it yet
 };
 
 enum class EventCode : std::uint8_t {

@@ -1,0 +1,91 @@
+#pragma once
+/// The machine lifecycle as a transition table that can be reviewed row by
+/// row. What each state lets the outputs do is written at MachineState in
+/// io_image.hpp. Any (state, event) pair without a row is ignored: the
+/// state stays as it is.
+#include <array>
+#include <cstdint>
+
+#include "spoolstep/core/io_image.hpp"
+
+namespace spoolstep::core {
+
+enum class MachineEvent : std::uint8_t {
+  kFaultImmediate = 0,  ///< a category 0 fault (or e-stop) is active
+  kFaultControlled,     ///< a category 1 or 2 fault is active
+  kStopComplete,        ///< every function has come to rest
+  kReset,               ///< reset pressed with no fault cause left
+  kSelectAuto,          ///< selector in automatic (level)
+  kSelectManual,        ///< selector in manual (level)
+  kCycleStart,          ///< rising edge
+  kCycleStop,           ///< stop at end of cycle
+  kCycleComplete,       ///< the chain is back at its initial step, single cycle
+  kCycleRepeat,         ///< the chain is back at its initial step, continuous
+};
+inline constexpr std::size_t kMachineEventCount = 10;
+
+struct StateTransition {
+  MachineState from;
+  MachineEvent event;
+  MachineState to;
+};
+
+// clang-format off
+inline constexpr std::array<StateTransition, 27> kStateTable{{
+  {MachineState::kPowerUp,      MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kPowerUp,      MachineEvent::kFaultControlled, MachineState::kFaulted},   // nothing moves yet
+  {MachineState::kPowerUp,      MachineEvent::kReset,           MachineState::kManual},
+  {MachineState::kManual,       MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kManual,       MachineEvent::kFaultControlled, MachineState::kStopping},
+  {MachineState::kManual,       MachineEvent::kSelectAuto,      MachineState::kAutoIdle},
+  {MachineState::kAutoIdle,     MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kAutoIdle,     MachineEvent::kFaultControlled, MachineState::kStopping},
+  {MachineState::kAutoIdle,     MachineEvent::kSelectManual,    MachineState::kManual},
+  {MachineState::kAutoIdle,     MachineEvent::kCycleStart,      MachineState::kAutoCycle},
+  {MachineState::kAutoCycle,    MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kAutoCycle,    MachineEvent::kFaultControlled, MachineState::kStopping},
+  {MachineState::kAutoCycle,    MachineEvent::kSelectManual,    MachineState::kManual},
+  {MachineState::kAutoCycle,    MachineEvent::kCycleStop,       MachineState::kAutoEndCycle},
+  {MachineState::kAutoCycle,    MachineEvent::kCycleComplete,   MachineState::kAutoIdle},
+  {MachineState::kAutoCycle,    MachineEvent::kCycleRepeat,     MachineState::kAutoCycle},
+  {MachineState::kAutoEndCycle, MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kAutoEndCycle, MachineEvent::kFaultControlled, MachineState::kStopping},
+  {MachineState::kAutoEndCycle, MachineEvent::kSelectManual,    MachineState::kManual},
+  {MachineState::kAutoEndCycle, MachineEvent::kCycleComplete,   MachineState::kAutoIdle},
+  {MachineState::kAutoEndCycle, MachineEvent::kCycleRepeat,     MachineState::kAutoIdle},
+  {MachineState::kStopping,     MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kStopping,     MachineEvent::kStopComplete,    MachineState::kFaulted},
+  {MachineState::kFaulted,      MachineEvent::kReset,           MachineState::kManual},
+  // A controlled fault while already faulted changes nothing; listed so the
+  // table states it rather than leaving it to the default.
+  {MachineState::kFaulted,      MachineEvent::kFaultControlled, MachineState::kFaulted},
+  {MachineState::kFaulted,      MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kStopping,     MachineEvent::kFaultControlled, MachineState::kStopping},
+}};
+// clang-format on
+
+struct TransitionResult {
+  MachineState next;
+  bool handled;  ///< false: no row, the event is ignored in this state
+};
+
+/// Looks up (state, event) in kStateTable.
+constexpr TransitionResult next_state(MachineState state, MachineEvent event) {
+  for (const StateTransition& row : kStateTable) {
+    if (row.from == state && row.event == event) return {row.to, true};
+  }
+  return {state, false};
+}
+
+/// True in the states where the step chain may run.
+constexpr bool chain_running(MachineState state) {
+  return state == MachineState::kAutoCycle || state == MachineState::kAutoEndCycle;
+}
+
+/// True in the states where the pump may be started.
+constexpr bool pump_may_start(MachineState state) {
+  return state == MachineState::kManual || state == MachineState::kAutoIdle ||
+         state == MachineState::kAutoCycle || state == MachineState::kAutoEndCycle;
+}
+
+}  // namespace spoolstep::core

@@ -1,0 +1,204 @@
+// The step chain (IEC 61131-3 SFC sense: steps with actions, transitions with
+// conditions) driven through a whole cycle, row by row.
+#include <gtest/gtest.h>
+
+#include <functional>
+
+#include "test_rig.hpp"
+
+namespace spoolstep::core {
+namespace {
+
+using namespace testing;
+
+struct Row {
+  const char* why;
+  std::function<void(Rig&)> act;  // what the operator or the machine does
+  std::uint32_t run_ms;           // then scan this long
+  MachineState state;
+  std::uint8_t step;
+  bool clamp_extend;
+  bool clamp_retract;
+  int press;  // sign of the press command: +1 extend, -1 retract, 0 none
+};
+
+void set_di(Rig& rig, std::uint8_t di, bool value) { rig.in.digital[di] = value; }
+
+void check(Rig& rig, const Row& row) {
+  if (row.act) row.act(rig);
+  rig.run_ms(row.run_ms);
+  const Diagnostics& d = rig.diag();
+  EXPECT_EQ(d.state, row.state) << row.why;
+  EXPECT_EQ(d.active_step, row.step) << row.why;
+  EXPECT_EQ(rig.out.coils[kClampY1], row.clamp_extend) << row.why;
+  EXPECT_EQ(rig.out.coils[kClampY2], row.clamp_retract) << row.why;
+  const int press = rig.out.prop[kPressYa].value > 0.0f ? 1 : (rig.out.prop[kPressYb].value > 0.0f ? -1 : 0);
+  EXPECT_EQ(press, row.press) << row.why;
+}
+
+const float kMaAt120Bar = 4.0f + 16.0f * 120.0f / 250.0f;
+
+TEST(Sequence, FullSingleCycleRowByRow) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  const Row rows[] = {
+      {"automatic selected, idle at the initial step", nullptr, 10, MachineState::kAutoIdle, kWait, false, false, 0},
+      {"cycle start: start conditions hold, clamp closes",
+       [](Rig& r) { r.press(kStart); }, 5, MachineState::kAutoCycle, kClampStep, true, false, 0},
+      {"clamp closed: press goes down, clamp held",
+       [](Rig& r) { set_di(r, kClampClosed, true); }, 5, MachineState::kAutoCycle, kPressStep, true, false, 1},
+      {"press leaves the top", [](Rig& r) { set_di(r, kPressUp, false); }, 100, MachineState::kAutoCycle, kPressStep, true, false, 1},
+      {"bottom reached but pressure low: wait for force",
+       [](Rig& r) { set_di(r, kPressDown, true); }, 5, MachineState::kAutoCycle, kPressStep, true, false, 0},
+      {"pressure above 100 bar: dwell", [](Rig& r) { r.set_ma(kPressPressure, kMaAt120Bar); }, 5,
+       MachineState::kAutoCycle, kDwell, true, false, 0},
+      {"dwell shorter than its minimum time", nullptr, 400, MachineState::kAutoCycle, kDwell, true, false, 0},
+      {"after 500 ms: retract", nullptr, 120, MachineState::kAutoCycle, kRetract, true, false, -1},
+      {"leaving the bottom", [](Rig& r) { set_di(r, kPressDown, false); r.set_ma(kPressPressure, 4.0f); }, 50,
+       MachineState::kAutoCycle, kRetract, true, false, -1},
+      {"top reached: unclamp (after the 50 ms reversal dwell)", [](Rig& r) { set_di(r, kPressUp, true); }, 60,
+       MachineState::kAutoCycle, kUnclamp, false, true, 0},
+      {"clamp open: single cycle ends in idle", [](Rig& r) { set_di(r, kClampClosed, false); }, 5,
+       MachineState::kAutoIdle, kWait, false, false, 0},
+      {"no restart without a new start", nullptr, 500, MachineState::kAutoIdle, kWait, false, false, 0},
+  };
+  for (const Row& row : rows) check(rig, row);
+  EXPECT_EQ(rig.diag().completed_cycles, 1u);
+}
+
+TEST(Sequence, CycleStartRefusedWhenStartConditionsDoNotHold) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.in.digital[kPressUp] = false;  // press not at the top
+  rig.press(kStart);
+  rig.run_ms(100);
+  EXPECT_EQ(rig.diag().active_step, kWait);
+  EXPECT_FALSE(rig.out.coils[kClampY1]);
+}
+
+TEST(Sequence, SupervisionFaultNamesStepAndUnmetCondition) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.run_ms(5);
+  ASSERT_EQ(rig.diag().active_step, kPressStep);
+  rig.in.digital[kPressDown] = true;  // at the bottom, but the pressure never comes
+  rig.run_ms(5100);                   // supervision 5 s
+  const Diagnostics& d = rig.diag();
+  ASSERT_TRUE(has_fault(d, FaultCode::kStepSupervision));
+  const Fault* fault = nullptr;
+  for (std::uint8_t i = 0; i < d.fault_count; ++i) {
+    if (d.faults[i].code == FaultCode::kStepSupervision) fault = &d.faults[i];
+  }
+  ASSERT_NE(fault, nullptr);
+  const MachineConfig c = make_test_machine();
+  EXPECT_STREQ(c.steps[fault->subject].name.text.data(), "press_down");
+  ASSERT_LT(fault->detail, c.node_count);
+  EXPECT_STREQ(c.nodes[fault->detail].label.text.data(), "press_pressure > 100")
+      << "the leaf that held the transition false, not the whole condition";
+  EXPECT_EQ(fault->category, StopCategory::kCat1);
+  rig.run_ms(100);
+  EXPECT_EQ(d.state, MachineState::kFaulted);
+  EXPECT_TRUE(all_outputs_off(rig.out));
+}
+
+TEST(Sequence, ResetAfterAFaultMidCycleDoesNotRestart) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.run_ms(50);
+  ASSERT_EQ(rig.diag().active_step, kPressStep);
+  rig.in.digital[kEstopOk] = false;
+  rig.run_ms(5);
+  rig.in.digital[kEstopOk] = true;
+  rig.press(kReset);
+  rig.run_ms(500);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoIdle);
+  EXPECT_EQ(rig.diag().active_step, kWait);
+  EXPECT_FALSE(rig.out.coils[kClampY1]);
+  EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f);
+}
+
+TEST(Sequence, CycleStopFinishesTheCycleThenIdles) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.in.commands.continuous = true;
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.run_ms(5);
+  rig.in.commands.cycle_stop = true;
+  rig.scan();
+  rig.in.commands.cycle_stop = false;
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoEndCycle);
+  EXPECT_EQ(rig.diag().active_step, kPressStep) << "the cycle goes on";
+  rig.in.digital[kPressUp] = false;
+  rig.in.digital[kPressDown] = true;
+  rig.set_ma(kPressPressure, kMaAt120Bar);
+  rig.run_ms(600);
+  rig.in.digital[kPressDown] = false;
+  rig.in.digital[kPressUp] = true;
+  rig.run_ms(100);
+  rig.in.digital[kClampClosed] = false;
+  rig.run_ms(100);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoIdle);
+  EXPECT_EQ(rig.diag().active_step, kWait);
+}
+
+TEST(Sequence, ContinuousModeStartsTheNextCycle) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.in.commands.continuous = true;
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.in.digital[kPressUp] = false;
+  rig.in.digital[kPressDown] = true;
+  rig.set_ma(kPressPressure, kMaAt120Bar);
+  rig.run_ms(600);
+  rig.in.digital[kPressDown] = false;
+  rig.in.digital[kPressUp] = true;
+  rig.run_ms(100);
+  rig.in.digital[kClampClosed] = false;
+  rig.run_ms(10);
+  EXPECT_EQ(rig.diag().completed_cycles, 1u);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
+  EXPECT_EQ(rig.diag().active_step, kClampStep) << "next cycle started by itself";
+}
+
+TEST(Sequence, SelectorToManualLeavesTheCycle) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.run_ms(50);
+  rig.in.digital[kAutoSel] = false;
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kManual);
+  rig.run_ms(200);
+  EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f);
+  EXPECT_FALSE(rig.out.coils[kClampY1]);
+}
+
+TEST(Sequence, EventLogRecordsStepChangesWithTimes) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.run_ms(5);
+  const EventLog& log = rig.diag().events;
+  bool saw_clamp = false, saw_press = false;
+  std::uint32_t last_time = 0;
+  for (std::uint32_t i = 0; i < log.size(); ++i) {
+    const Event& e = log.at(i);
+    EXPECT_GE(e.time_us, last_time) << "events in time order";
+    last_time = e.time_us;
+    if (e.code == EventCode::kStepChanged && e.subject == kClampStep) saw_clamp = true;
+    if (e.code == EventCode::kStepChanged && e.subject == kPressStep) saw_press = true;
+  }
+  EXPECT_TRUE(saw_clamp);
+  EXPECT_TRUE(saw_press);
+}
+
+}  // namespace
+}  // namespace spoolstep::core
