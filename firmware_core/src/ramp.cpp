@@ -56,7 +56,7 @@ void advance_ramp(RampState& state, float target, const RampLimits& extend,
 
   const bool s_curve = limits.jerk_time_s > 0.0f && limits.accel_per_s > 0.0f &&
                        limits.decel_per_s > 0.0f;
-  float m_next;
+  float m_next = m;
   if (!s_curve) {
     m_next = linear_step(m, mt, limits, dt_s);
     q = (m_next - m) / dt_s;
