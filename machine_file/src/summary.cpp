@@ -97,9 +97,15 @@ class ConditionText {
         }
         return nested && n.b > 1 ? "(" + text + ")" : text;
       }
-      case core::ConditionOp::kOnDelay: return fmt::format("{} for {}", render(n.a, true), ms(n.time_us));
-      case core::ConditionOp::kOffDelay: return fmt::format("{} (off-delay {})", render(n.a, true), ms(n.time_us));
-      case core::ConditionOp::kDebounce: return fmt::format("{} (debounced {})", render(n.a, true), ms(n.time_us));
+      case core::ConditionOp::kOnDelay:
+      case core::ConditionOp::kOffDelay:
+      case core::ConditionOp::kDebounce: {
+        const std::string inner = render(n.a, true);
+        const std::string text = n.op == core::ConditionOp::kOnDelay    ? fmt::format("{} for {}", inner, ms(n.time_us))
+                                 : n.op == core::ConditionOp::kOffDelay ? fmt::format("{} off-delayed {}", inner, ms(n.time_us))
+                                                                        : fmt::format("{} debounced {}", inner, ms(n.time_us));
+        return nested ? "(" + text + ")" : text;
+      }
     }
     return "?";
   }
