@@ -510,6 +510,7 @@ class Loader {
   NameIndex digital_, analog_, coils_, props_, functions_, steps_, interlocks_, two_hands_;
   std::map<std::uint8_t, std::string> coil_owner_, prop_owner_;
   std::vector<std::map<std::string, std::uint8_t>> ramp_names_;  // per function
+  std::vector<bool> kind_known_;  // per function: valve kind read, so kind-specific checks apply
 
   // Interlocks compile on first use so that a reference finds its target's
   // root node already compiled (children before parents).
@@ -1167,6 +1168,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
                              [&](const ValveKindInfo& k) { return k.key == v->at("kind").get<std::string>(); });
   }
   const bool proportional = known_kind && core::is_proportional(fc.valve);
+  kind_known_[index] = known_kind;
 
   fc.extended_end_input = member(f, path, "extended_end") ? read_ref(f, path, "extended_end") : core::kNoIndex8;
   fc.retracted_end_input = member(f, path, "retracted_end") ? read_ref(f, path, "retracted_end") : core::kNoIndex8;
@@ -1451,6 +1453,7 @@ void Loader::load_sequence(const json& doc) {
              "One action per function and step.");
       }
       const auto& fc = cfg_.functions[f];
+      if (f >= kind_known_.size() || !kind_known_[f]) continue;  // the valve's own error says enough
       if (!core::is_proportional(fc.valve)) {
         if (a.contains("ramp")) {
           fail(child(q, "ramp"), fmt::format("'{}' has a solenoid valve: solenoid valves shift fully and cannot be ramped", name_view(fc.name)),
@@ -1474,7 +1477,7 @@ void Loader::load_sequence(const json& doc) {
       act.ramp = 0;
       if (a.contains("ramp")) {
         const auto ramp = read_string(a, q, "ramp");
-        if (ramp) {
+        if (ramp && fc.ramp_count > 0) {  // no ramps at all is reported at the function
           const auto& names = ramp_names_[f];
           const auto it = names.find(*ramp);
           if (it != names.end()) {
@@ -1559,6 +1562,7 @@ void Loader::load(const json& doc) {
     const std::size_t n = capped(functions->size(), core::kMaxFunctions, "kMaxFunctions", "/functions", "functions");
     cfg_.function_count = static_cast<std::uint8_t>(n);
     ramp_names_.resize(n);
+    kind_known_.assign(n, false);
     for (std::size_t i = 0; i < n; ++i) {
       const std::string p = child("/functions", i);
       if (expect_object((*functions)[i], p)) load_function((*functions)[i], p, static_cast<std::uint8_t>(i));

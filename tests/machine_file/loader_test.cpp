@@ -1,0 +1,241 @@
+// Loader behaviour outside the bad-file table: capacities, file handling,
+// error formatting, the parameter table and the generated reference.
+#include <fstream>
+#include <sstream>
+#include <string>
+
+#include <fmt/format.h>
+#include <gtest/gtest.h>
+
+#include "spoolstep/machine_file/machine_file.hpp"
+#include "spoolstep/machine_file/parameters.hpp"
+
+namespace spoolstep::machine_file {
+namespace {
+
+using json = nlohmann::json;
+
+std::string read_text(const std::string& path) {
+  std::ifstream in(path);
+  std::ostringstream out;
+  out << in.rdbuf();
+  return out.str();
+}
+
+json minimal() {
+  return json::parse(read_text(std::string(SPOOLSTEP_MACHINE_FILE_TEST_DIR) + "/good_minimal.json"), nullptr, true,
+                     /*ignore_comments=*/true);
+}
+
+bool has_error(const LoadResult& result, const std::string& path, const std::string& fragment) {
+  for (const auto& e : result.errors) {
+    if (e.json_path == path && (e.reason + " " + e.hint).find(fragment) != std::string::npos) return true;
+  }
+  return false;
+}
+
+std::string dump_errors(const LoadResult& result) {
+  std::string all;
+  for (const auto& e : result.errors) all += e.to_string() + "\n";
+  return all;
+}
+
+TEST(Capacity, TooManyDigitalInputsNamesTheCapacity) {
+  json doc = minimal();
+  while (doc["inputs"]["digital"].size() <= core::kMaxDigitalInputs) {
+    doc["inputs"]["digital"].push_back({{"name", fmt::format("spare_{}", doc["inputs"]["digital"].size())}});
+  }
+  const auto result = load_machine_text(doc.dump(), "many_inputs.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_TRUE(has_error(result, "/inputs/digital/64", "capacity kMaxDigitalInputs = 64")) << dump_errors(result);
+}
+
+TEST(Capacity, TooManyFunctionsNamesTheCapacity) {
+  json doc = minimal();
+  for (std::size_t i = 0; doc["functions"].size() <= core::kMaxFunctions; ++i) {
+    doc["outputs"]["coils"].push_back({{"name", fmt::format("extra_{}_a", i)}});
+    doc["outputs"]["coils"].push_back({{"name", fmt::format("extra_{}_b", i)}});
+    doc["functions"].push_back({{"name", fmt::format("extra_{}", i)},
+                                {"valve",
+                                 {{"kind", "solenoid_4_2_detented"},
+                                  {"coil_extend", fmt::format("extra_{}_a", i)},
+                                  {"coil_retract", fmt::format("extra_{}_b", i)}}}});
+  }
+  const auto result = load_machine_text(doc.dump(), "many_functions.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_TRUE(has_error(result, "/functions/8", "capacity kMaxFunctions = 8")) << dump_errors(result);
+}
+
+TEST(Capacity, TooManyConditionNodesNamesTheCapacity) {
+  json doc = minimal();
+  json many = json::array();
+  for (std::size_t i = 0; i < 100; ++i) many.push_back({{"not", "start_pb"}});  // two nodes each
+  doc["sequence"]["transitions"][0]["condition"] = {{"any", many}};
+  const auto result = load_machine_text(doc.dump(), "many_nodes.json");
+  EXPECT_EQ(result.machine, nullptr);
+  bool found = false;
+  for (const auto& e : result.errors) {
+    found = found || e.reason.find("kMaxConditionNodes = 192") != std::string::npos;
+  }
+  EXPECT_TRUE(found) << dump_errors(result);
+  EXPECT_EQ(result.errors.size(), 1u) << "reported once, not once per node\n" << dump_errors(result);
+}
+
+TEST(Capacity, FourActionsPerStepFitAndAFifthDoesNot) {
+  json doc = minimal();
+  auto& actions = doc["sequence"]["steps"][1]["actions"];
+  for (int i = 0; i < 3; ++i) actions.push_back({{"function", "lift"}, {"direction", "extend"}});
+  const auto result = load_machine_text(doc.dump(), "many_actions.json");
+  EXPECT_TRUE(has_error(result, "/sequence/steps/1/actions/4", "capacity kMaxActionsPerStep = 4")) << dump_errors(result);
+}
+
+TEST(FailureProperty, AnyLeafReplacedByAListFailsWithNoMachine) {
+  // Every scalar in the minimal machine is either a name, a number, a choice,
+  // text or a condition; none of them may be a list of lists.
+  const json doc = minimal();
+  const json flat = doc.flatten();
+  std::size_t checked = 0;
+  for (const auto& leaf : flat.items()) {
+    json broken = doc;
+    broken[json::json_pointer(leaf.key())] = json::array({json::array()});
+    const auto result = load_machine_text(broken.dump(), "leaf.json");
+    EXPECT_EQ(result.machine, nullptr) << leaf.key();
+    ASSERT_FALSE(result.errors.empty()) << leaf.key();
+    bool at_or_above = false;
+    for (const auto& e : result.errors) {
+      at_or_above = at_or_above || leaf.key().rfind(e.json_path, 0) == 0;
+    }
+    EXPECT_TRUE(at_or_above) << leaf.key() << "\n" << dump_errors(result);
+    ++checked;
+  }
+  EXPECT_GT(checked, 50u);
+}
+
+TEST(FailureProperty, EveryRequiredTopLevelSectionIsRequired) {
+  for (const char* section : {"format", "machine", "inputs", "outputs", "operator", "functions"}) {
+    json doc = minimal();
+    doc.erase(section);
+    const auto result = load_machine_text(doc.dump(), "no_section.json");
+    EXPECT_EQ(result.machine, nullptr) << section;
+    EXPECT_TRUE(has_error(result, std::string("/") + section, "missing required field")) << section << "\n"
+                                                                                         << dump_errors(result);
+  }
+}
+
+TEST(Loading, MissingFileIsAnErrorNotAThrow) {
+  const auto result = load_machine_file("/nonexistent/machine.json");
+  EXPECT_EQ(result.machine, nullptr);
+  ASSERT_EQ(result.errors.size(), 1u);
+  EXPECT_EQ(result.errors[0].reason, "file not found");
+  EXPECT_EQ(result.errors[0].file, "/nonexistent/machine.json");
+}
+
+TEST(Loading, DirectoryIsNotAMachineFile) {
+  const auto result = load_machine_file(SPOOLSTEP_MACHINE_FILE_TEST_DIR);
+  EXPECT_EQ(result.machine, nullptr);
+  ASSERT_EQ(result.errors.size(), 1u);
+  EXPECT_EQ(result.errors[0].reason, "not a regular file");
+}
+
+TEST(Loading, CommentsAreAllowedAndThePlantSectionIsKeptRaw) {
+  json doc = minimal();
+  doc["plant"] = {{"anything", {{"the", "plant model"}, {"owns", 1}}}};
+  const auto result = load_machine_text("// a comment\n" + doc.dump(2), "with_plant.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  EXPECT_EQ(result.machine->plant, doc["plant"]);
+  EXPECT_EQ(result.machine->source_path, "with_plant.json");
+}
+
+TEST(Loading, DefaultsAreTakenFromTheParameterTable) {
+  const auto result = load_machine_text(minimal().dump(), "defaults.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  EXPECT_EQ(c.safety.watchdog_us, 20000u);
+  EXPECT_EQ(c.safety.supervision_category, core::StopCategory::kCat1);
+  EXPECT_EQ(c.operator_panel.estop_category, core::StopCategory::kCat0);
+  EXPECT_EQ(c.two_hand[0].max_sync_us, 500000u);
+  const auto& tilt = c.functions[find_function(c, "tilt").value()];
+  EXPECT_EQ(tilt.ramps[0].profile, core::RampProfile::kLinear);
+  EXPECT_EQ(tilt.ramps[0].extend_accel_us, 500000u);
+  EXPECT_EQ(tilt.ramps[1].extend_accel_us, 900000u);
+  EXPECT_FLOAT_EQ(tilt.jog_speed_percent, 10.0f);
+  EXPECT_EQ(tilt.reversal_dwell_us, 100000u);
+  EXPECT_EQ(c.interlocks[0].stop_category, core::StopCategory::kCat1);
+}
+
+TEST(Loading, AllGuardCoversEveryMotionAndThePump) {
+  const auto result = load_machine_text(minimal().dump(), "guards.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  EXPECT_EQ(c.interlocks[0].guards, 0b1111u | core::kPowerUnitGuardBit);
+  EXPECT_EQ(c.interlocks[1].guards, core::motion_bit(0, core::Direction::kExtend));
+}
+
+TEST(Loading, NameLookupsFindDeclaredNamesOnly) {
+  const auto result = load_machine_text(minimal().dump(), "names.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  EXPECT_EQ(find_digital_input(c, "start_pb"), 2);
+  EXPECT_EQ(find_analog_input(c, "lift_pressure"), 0);
+  EXPECT_EQ(find_coil(c, "lift_y2"), 2);
+  EXPECT_EQ(find_prop_output(c, "tilt_yb"), 1);
+  EXPECT_EQ(find_function(c, "tilt"), 1);
+  EXPECT_EQ(find_step(c, "up"), 1);
+  EXPECT_EQ(find_interlock(c, "guard_and_pressure"), 1);
+  EXPECT_EQ(find_two_hand(c, "main"), 0);
+  EXPECT_EQ(find_ramp(c, 1, "soft"), 1);
+  EXPECT_FALSE(find_digital_input(c, "lift_y1").has_value());
+  EXPECT_FALSE(find_function(c, "").has_value());
+  EXPECT_FALSE(find_ramp(c, 0, "soft").has_value());
+  EXPECT_FALSE(find_step(c, "upx").has_value());
+}
+
+TEST(LoadErrorText, NamesFilePathReasonAndHint) {
+  const LoadError e{"press_cell.json", "/functions/1/ramps/0/extend_accel_ms", "must be between 0 and 60000 (got -5)",
+                    "Fix the value."};
+  EXPECT_EQ(e.to_string(),
+            "press_cell.json: /functions/1/ramps/0/extend_accel_ms: must be between 0 and 60000 (got -5). Fix the value.");
+  const LoadError whole{"x.json", "", "file not found", "Check the path."};
+  EXPECT_EQ(whole.to_string(), "x.json: file not found. Check the path.");
+}
+
+TEST(ParameterTable, DefaultsLieWithinTheirLimitsAndChoices) {
+  ASSERT_GT(parameter_count(), 50u);
+  for (std::size_t i = 0; i < parameter_count(); ++i) {
+    const Parameter& p = parameter_at(i);
+    EXPECT_FALSE(p.description.empty()) << p.key;
+    EXPECT_EQ(find_parameter(p.key), &p) << "keys are unique: " << p.key;
+    if (p.required) {
+      EXPECT_TRUE(p.default_value.empty()) << p.key << ": a required field has no default";
+    }
+    if (p.default_value.empty()) continue;
+    if (p.type == ParamType::kInteger || p.type == ParamType::kNumber) {
+      const double value = std::stod(std::string(p.default_value));
+      EXPECT_GE(value, p.min) << p.key;
+      EXPECT_LE(value, p.max) << p.key;
+    } else if (p.type == ParamType::kChoice) {
+      EXPECT_NE(("|" + std::string(p.choices) + "|").find("|" + std::string(p.default_value) + "|"), std::string::npos)
+          << p.key;
+    }
+  }
+}
+
+TEST(ParameterReference, ListsEveryParameterInOneMarkdownTable) {
+  std::ostringstream out;
+  write_parameter_reference(out);
+  const std::string text = out.str();
+  EXPECT_NE(text.find("| Key | Type | Unit | Required | Default | Min | Max | Description |"), std::string::npos);
+  for (std::size_t i = 0; i < parameter_count(); ++i) {
+    EXPECT_NE(text.find("| `" + std::string(parameter_at(i).key) + "` |"), std::string::npos) << parameter_at(i).key;
+  }
+}
+
+TEST(ParameterReference, CheckedInCopyIsUpToDate) {
+  std::ostringstream out;
+  write_parameter_reference(out);
+  EXPECT_EQ(read_text(std::string(SPOOLSTEP_CONFIG_DIR) + "/machine-file-reference.md"), out.str())
+      << "regenerate with: spoolstep check --reference > config/machine-file-reference.md";
+}
+
+}  // namespace
+}  // namespace spoolstep::machine_file
