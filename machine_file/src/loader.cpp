@@ -717,12 +717,14 @@ std::uint16_t Loader::compile(const json& c, const std::string& path) {
       deferred_.push_back([this, function, extended, field] {
         const auto& fc = cfg_.functions[function];
         const std::uint8_t end = extended ? fc.extended_end_input : fc.retracted_end_input;
-        if (end == core::kNoIndex8 && fc.position_input == core::kNoIndex8) {
+        // The core reads only the end-of-travel input for this state, not the
+        // position window, so without the input the condition never holds.
+        if (end == core::kNoIndex8) {
           fail(field,
-               fmt::format("function '{}' has no {} input and no position window to tell its {} end",
-                           name_view(fc.name), extended ? "extended_end" : "retracted_end",
-                           extended ? "extended" : "retracted"),
-               fmt::format("Add \"{}\" or \"position\" to the function.", extended ? "extended_end" : "retracted_end"));
+               fmt::format("function '{}' has no {} input, so this condition could never be true",
+                           name_view(fc.name), extended ? "extended_end" : "retracted_end"),
+               fmt::format("Add \"{}\" to the function, or test its position input with {{\"analog\": ...}}.",
+                           extended ? "extended_end" : "retracted_end"));
         }
       });
     }
@@ -1245,10 +1247,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
       auto& rc = fc.ramps[i];
       check_keys(r, p, {"name", "description", "profile", "extend_accel_ms", "extend_decel_ms", "retract_accel_ms",
                         "retract_decel_ms", "jerk_ms"});
-      if (r.contains("description")) {
-        // Ramps have no table row for description; accept free text.
-        if (!r.at("description").is_string()) fail(child(p, "description"), "must be a string", "Write text in quotes.");
-      }
+      read_string(r, p, "description");
       const std::string name = read_name(r, p);
       set_name(rc.name, name);
       if (claim_name(names, name, p, "ramp")) ramp_names_[index][name] = static_cast<std::uint8_t>(i);

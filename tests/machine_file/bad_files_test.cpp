@@ -104,7 +104,7 @@ const BadFile kBadFiles[] = {
    "a threshold the input can never cross is a mistake"},
   {"guard_unknown_motion.json", "/interlocks/1/guards/0", "unknown motion 'extnd'",
    "guards name a motion as function.extend or function.retract"},
-  {"function_state_without_end_input.json", "/sequence/transitions/1/condition/is", "no extended_end input and no position window",
+  {"function_state_without_end_input.json", "/sequence/transitions/1/condition/is", "has no extended_end input, so this condition could never be true",
    "an end-of-travel condition needs a way to sense the end"},
 };
 // clang-format on
