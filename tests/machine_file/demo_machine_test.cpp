@@ -79,7 +79,7 @@ TEST_F(PressCell, ValvesResolveToTheirOutputsAndCentres) {
   EXPECT_FLOAT_EQ(press.dither_frequency_hz, 120.0f);
   EXPECT_EQ(press.position_input, find_analog_input(config(), "press_position"));
   EXPECT_FLOAT_EQ(press.extend_limit, 480.0f);
-  EXPECT_FLOAT_EQ(press.retract_limit, 2.0f);
+  EXPECT_FLOAT_EQ(press.retract_limit, 1.0f);
   EXPECT_FLOAT_EQ(press.jog_speed_percent, 15.0f);
 }
 
