@@ -53,7 +53,7 @@ constexpr std::array kTable = {
             "Engineering unit of the value (at most 23 characters), e.g. bar, mm, degC.", ""},
   Parameter{"/inputs/analog/*/signal", T::kChoice, "", kReq, "", kNoLimit, kNoLimit, "4-20mA|engineering",
             "4-20mA: the I/O delivers loop current, scaled by range, NAMUR NE 43 fault bands apply; engineering: already scaled.", ""},
-  Parameter{"/inputs/analog/*/range", T::kRange, "input unit", kReq, "", -1e9, 1e9, "",
+  Parameter{"/inputs/analog/*/range", T::kRange, "input unit", kReq, "", kNoLimit, kNoLimit, "",
             "[value at 4 mA, value at 20 mA]; also the plausible span of an engineering signal.", ""},
   Parameter{"/inputs/analog/*/max_age_ms", T::kInteger, "ms", kOpt, "50", 0, 60000, "",
             "A sample older than this faults the input (0: check off).", ""},

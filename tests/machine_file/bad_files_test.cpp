@@ -106,6 +106,18 @@ const BadFile kBadFiles[] = {
    "guards name a motion as function.extend or function.retract"},
   {"function_state_without_end_input.json", "/sequence/transitions/1/condition/is", "has no extended_end input, so this condition could never be true",
    "an end-of-travel condition needs a way to sense the end"},
+  {"unknown_condition_form.json", "/sequence/transitions/0/condition/analgo", "Did you mean 'analog'?",
+   "a typo in a condition form gets a suggestion"},
+  {"coil_retract_on_spring_return.json", "/functions/0/valve/coil_retract", "the spring gives the retract position",
+   "a single-solenoid valve has no retract coil"},
+  {"jerk_on_linear_ramp.json", "/functions/1/ramps/1/jerk_ms", "jerk_ms applies to s_curve ramps only",
+   "a setting that would be ignored is refused"},
+  {"two_hand_same_input_twice.json", "/two_hand/0/right", "left and right are the same input",
+   "one button cannot be both hands"},
+  {"supervision_shorter_than_min_time.json", "/sequence/steps/1/supervision_ms", "must be longer than min_time_ms",
+   "a step that must fault before it may leave"},
+  {"watchdog_shorter_than_two_scans.json", "/timing/watchdog_ms", "at least two scan periods",
+   "a watchdog that trips on every normal scan"},
 };
 // clang-format on
 

@@ -239,3 +239,99 @@ TEST(ParameterReference, CheckedInCopyIsUpToDate) {
 
 }  // namespace
 }  // namespace spoolstep::machine_file
+
+namespace spoolstep::machine_file {
+namespace {
+
+TEST(ValveKinds, EveryKindLoadsWithItsOwnOutputsAndSummarizes) {
+  json doc = minimal();
+  doc["outputs"]["coils"].push_back({{"name", "door_y1"}});
+  doc["outputs"]["coils"].push_back({{"name", "door_y2"}});
+  doc["outputs"]["coils"].push_back({{"name", "eject_y1"}});
+  doc["outputs"]["proportional"].push_back({{"name", "slide_cmd"}, {"unit", "percent"}});
+  doc["functions"].push_back(json::parse(R"({"name": "door", "valve": {"kind": "solenoid_4_2_detented",
+      "coil_extend": "door_y1", "coil_retract": "door_y2", "detent_pulse_ms": 150}})"));
+  doc["functions"].push_back(json::parse(R"({"name": "eject", "valve": {"kind": "solenoid_4_2_spring_return",
+      "coil_extend": "eject_y1"}})"));
+  doc["functions"].push_back(json::parse(R"({"name": "slide", "valve": {"kind": "proportional_4_3_signed",
+      "centre": "float", "channel": "slide_cmd", "deadband_jump_percent": 12}, "ramps": [{"name": "normal"}]})"));
+  const auto result = load_machine_text(doc.dump(), "kinds.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  const auto& door = c.functions[find_function(c, "door").value()];
+  EXPECT_EQ(door.valve, core::ValveKind::kSolenoid42Detented);
+  EXPECT_EQ(door.centre, core::ValveCentre::kNotApplicable);
+  EXPECT_EQ(door.detent_pulse_us, 150000u);
+  const auto& eject = c.functions[find_function(c, "eject").value()];
+  EXPECT_EQ(eject.valve, core::ValveKind::kSolenoid42SpringReturn);
+  EXPECT_EQ(eject.coil_extend, find_coil(c, "eject_y1"));
+  EXPECT_EQ(eject.coil_retract, core::kNoIndex8);
+  const auto& slide = c.functions[find_function(c, "slide").value()];
+  EXPECT_EQ(slide.valve, core::ValveKind::kProportional43SignedCommand);
+  EXPECT_EQ(slide.centre, core::ValveCentre::kFloat);
+  EXPECT_EQ(slide.prop_extend, find_prop_output(c, "slide_cmd"));
+  EXPECT_EQ(slide.prop_retract, core::kNoIndex8);
+  EXPECT_FLOAT_EQ(slide.deadband_jump_percent, 12.0f);
+  const std::string text = summarize(c);
+  for (const char* expected : {"door: solenoid 4/2 detented, no centre (4/2)", "detent pulse 150 ms",
+                               "eject: solenoid 4/2 spring return", "spring gives retract",
+                               "slide: proportional 4/3 signed command, float centre", "deadband jump 12 %"}) {
+    EXPECT_NE(text.find(expected), std::string::npos) << expected << "\n" << text;
+  }
+}
+
+TEST(ValveKinds, DetentedValveRejectsProportionalSettings) {
+  json doc = minimal();
+  doc["functions"][0]["valve"] = json::parse(R"({"kind": "solenoid_4_2_detented", "coil_extend": "lift_y1",
+      "coil_retract": "lift_y2", "dither": {"amplitude_ma": 40, "frequency_hz": 100}})");
+  const auto result = load_machine_text(doc.dump(), "detent_dither.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_TRUE(has_error(result, "/functions/0/valve/dither", "does not apply to valve kind solenoid_4_2_detented"))
+      << dump_errors(result);
+}
+
+TEST(ValveKinds, QuickStopAndJogSpeedAreForProportionalValvesOnly) {
+  json doc = minimal();
+  doc["functions"][0]["quick_stop_ms"] = 80;
+  doc["functions"][0]["jog"] = {{"extend", "start_pb"}, {"speed_percent", 20}};
+  const auto result = load_machine_text(doc.dump(), "solenoid_extras.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_TRUE(has_error(result, "/functions/0/quick_stop_ms", "applies to proportional valves only")) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/functions/0/jog/speed_percent", "applies to proportional valves only"))
+      << dump_errors(result);
+}
+
+TEST(Conditions, EveryFormCompilesToItsOperation) {
+  json doc = minimal();
+  doc["sequence"]["transitions"][0]["condition"] = json::parse(R"({"all": [
+      true, false, "start_pb", {"input": "hand_l"}, {"not": "hand_r"},
+      {"any": [{"mode": "automatic"}, {"mode": "manual"}]},
+      {"analog": "lift_pressure", "above": 50, "hysteresis": 2},
+      {"on_delay_ms": 200, "of": "start_pb"}, {"off_delay_ms": 300, "of": "start_pb"}, {"debounce_ms": 20, "of": "start_pb"},
+      {"function": "lift", "is": "retracting"}, {"interlock": "guard"}, {"step": "up"}, {"two_hand": "main"},
+      {"power_unit": "ready"}]})");
+  const auto result = load_machine_text(doc.dump(), "forms.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  const auto& root = c.nodes[c.transitions[0].condition];
+  ASSERT_EQ(root.op, core::ConditionOp::kAll);
+  ASSERT_EQ(root.b, 15);
+  using Op = core::ConditionOp;
+  const Op expected[] = {Op::kTrue, Op::kFalse, Op::kDigitalInput, Op::kDigitalInput, Op::kNot, Op::kAny,
+                         Op::kAnalogAbove, Op::kOnDelay, Op::kOffDelay, Op::kDebounce, Op::kFunctionState,
+                         Op::kNodeRef, Op::kStepActive, Op::kTwoHandHeld, Op::kPowerUnitReady};
+  for (std::uint16_t k = 0; k < root.b; ++k) {
+    EXPECT_EQ(c.nodes[c.child_slots[root.a + k]].op, expected[k]) << "child " << k;
+  }
+  const auto& on_delay = c.nodes[c.child_slots[root.a + 7]];
+  EXPECT_EQ(on_delay.time_us, 200000u);
+  EXPECT_STREQ(on_delay.label.text.data(), "start_pb on 200ms");
+  const auto& state = c.nodes[c.child_slots[root.a + 10]];
+  EXPECT_EQ(state.b, static_cast<std::uint16_t>(core::FunctionCondition::kRetracting));
+  EXPECT_STREQ(state.label.text.data(), "lift retracting");
+  EXPECT_EQ(c.nodes[c.child_slots[root.a + 11]].a, c.interlocks[0].condition);
+  EXPECT_STREQ(c.nodes[c.child_slots[root.a + 4]].label.text.data(), "not hand_r");
+}
+
+}  // namespace
+}  // namespace spoolstep::machine_file
