@@ -126,6 +126,12 @@ std::string got(const json& value) {
   return text;
 }
 
+/// The value with its JSON type, for type errors: `string "200"`, `null`.
+std::string got_typed(const json& value) {
+  if (value.is_null()) return "null";
+  return std::string(value.type_name()) + " " + got(value);
+}
+
 void set_name(core::Name& name, std::string_view text) {
   name.text.fill('\0');
   const std::size_t n = std::min(text.size(), core::kMaxNameLength);
@@ -254,14 +260,14 @@ class Loader {
   // -- structure
   bool expect_object(const json& j, const std::string& path) {
     if (j.is_object()) return true;
-    fail(path, fmt::format("must be an object {{...}} (got {} {})", j.type_name(), got(j)),
+    fail(path, fmt::format("must be an object {{...}} (got {})", got_typed(j)),
          "Write this part as a JSON object with named fields.");
     return false;
   }
 
   bool expect_array(const json& j, const std::string& path) {
     if (j.is_array()) return true;
-    fail(path, fmt::format("must be a list [...] (got {} {})", j.type_name(), got(j)),
+    fail(path, fmt::format("must be a list [...] (got {})", got_typed(j)),
          "Write this part as a JSON list.");
     return false;
   }
@@ -316,7 +322,7 @@ class Loader {
       return std::stod(std::string(p.default_value));
     }
     if (!j->is_number()) {
-      fail(field, fmt::format("must be a number (got {} {})", j->type_name(), got(*j)),
+      fail(field, fmt::format("must be a number (got {})", got_typed(*j)),
            fmt::format("Write a number{}{} without quotes.", p.unit.empty() ? "" : " in ", p.unit));
       return std::nullopt;
     }
@@ -351,7 +357,7 @@ class Loader {
       return std::string(p.default_value);
     }
     if (!j->is_string()) {
-      fail(field, fmt::format("must be a string (got {} {})", j->type_name(), got(*j)),
+      fail(field, fmt::format("must be a string (got {})", got_typed(*j)),
            "Write the value in double quotes.");
       return std::nullopt;
     }
@@ -432,8 +438,9 @@ class Loader {
     const NameIndex& index = index_of(kind);
     const auto it = index.find(name);
     if (it != index.end()) return it->second;
-    for (const RefKind other : {RefKind::kDigital, RefKind::kAnalog, RefKind::kCoil, RefKind::kProp}) {
-      if (other != kind && index_of(other).count(name) > 0 && kind <= RefKind::kProp) {
+    for (const RefKind other : {RefKind::kDigital, RefKind::kAnalog, RefKind::kCoil, RefKind::kProp, RefKind::kFunction,
+                                RefKind::kStep, RefKind::kInterlock, RefKind::kTwoHand}) {
+      if (other != kind && index_of(other).count(name) > 0) {
         fail(field, fmt::format("'{}' is a {}, not a {}", name, ref_noun(other), ref_noun(kind)),
              fmt::format("Name a {} declared under {}.", ref_noun(kind), ref_home(kind)));
         return core::kNoIndex8;
@@ -560,8 +567,7 @@ std::uint16_t Loader::compile(const json& c, const std::string& path) {
     return add_node(node, name, path);
   }
   if (!c.is_object()) {
-    fail(path, fmt::format("a condition must be true, false, a digital input name or an object (got {} {})",
-                           c.type_name(), got(c)),
+    fail(path, fmt::format("a condition must be true, false, a digital input name or an object (got {})", got_typed(c)),
          "See the condition forms in config/README.md.");
     return core::kNoCondition;
   }
@@ -1285,7 +1291,7 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     const json& g = (*list)[i];
     const std::string p = child(gp, i);
     if (!g.is_string()) {
-      fail(p, fmt::format("must be a string (got {} {})", g.type_name(), got(g)), "Write the guard in double quotes.");
+      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the guard in double quotes.");
       continue;
     }
     const std::string text = g.get<std::string>();
@@ -1526,7 +1532,7 @@ void Loader::load_sequence(const json& doc) {
   }
   cfg_.transition_count = static_cast<std::uint8_t>(nt);
   for (std::size_t i = 0; i < n; ++i) {
-    if (!has_exit[i] && (*steps)[i].is_object()) {
+    if (!has_exit[i] && (*steps)[i].is_object() && !name_view(cfg_.steps[i].name).empty()) {
       fail(child(sp, i), fmt::format("step '{}' has no transition out of it", name_view(cfg_.steps[i].name)),
            "Add a transition from it; the sequence would stop there for good.");
     }
