@@ -134,7 +134,9 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
     // A stalled scan: the controller sees a late time stamp; the plant runs on.
     const auto now_us = static_cast<std::uint32_t>((t_us + stall_us) & 0xFFFFFFFFu);
     if (stall_us != 0) stall_us = 0;
+    if (options.before_scan) options.before_scan(inputs, now_us);
     controller.scan(inputs, now_us, outputs);
+    if (options.after_scan) options.after_scan(outputs, controller.diagnostics());
     ++outcome.scans;
 
     const core::Diagnostics& d = controller.diagnostics();

@@ -47,6 +47,10 @@ class PlantPort {
 struct RunOptions {
   /// Called about every tenth of the run with the simulated time done.
   std::function<void(double done_s, double total_s)> progress;
+  /// Called before every scan with the exact inputs and time the core gets
+  /// (golden vectors, benchmarks), and after it with the outputs.
+  std::function<void(const core::InputImage& inputs, std::uint32_t now_us)> before_scan;
+  std::function<void(const core::OutputImage& outputs, const core::Diagnostics& diagnostics)> after_scan;
 };
 
 struct RunOutcome {
