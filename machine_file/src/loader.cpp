@@ -1499,6 +1499,15 @@ void Loader::load_sequence(const json& doc) {
       }
     }
     st.action_count = static_cast<std::uint8_t>(na);
+    // A step that moves something and is never timed out can hang with the
+    // valves open (a lost end switch, a stalled cylinder): insist on a limit.
+    if (na > 0 && !item.contains("supervision_ms")) {
+      missing(p, "supervision_ms", "a step with actions moves something; give the longest time it may take (ms).");
+    } else if (na > 0 && st.supervision_us == 0 && item.at("supervision_ms").is_number_integer() &&
+               item.at("supervision_ms").get<double>() == 0.0) {
+      fail(child(p, "supervision_ms"), "a step with actions must be supervised (0 turns supervision off)",
+           "Give the longest time the step's motions may take.");
+    }
   }
 
   const json* transitions = member(*seq, path, "transitions");

@@ -229,7 +229,7 @@ constexpr std::array kTable = {
   Parameter{"/sequence/steps/*/min_time_ms", T::kInteger, "ms", kOpt, "0", 0, kMaxTimeMs, "",
             "No transition out of the step fires before this.", ""},
   Parameter{"/sequence/steps/*/supervision_ms", T::kInteger, "ms", kOpt, "0", 0, kMaxTimeMs, "",
-            "Fault if the step is still active after this (0: unsupervised).", ""},
+            "Fault if the step is still active after this; required (and not 0) for steps with actions, 0 = unsupervised.", ""},
   Parameter{"/sequence/transitions/*/from", T::kStep, "", kReq, "", kNoLimit, kNoLimit, "",
             "Step the transition leaves.", ""},
   Parameter{"/sequence/transitions/*/to", T::kStep, "", kReq, "", kNoLimit, kNoLimit, "",

@@ -118,6 +118,8 @@ const BadFile kBadFiles[] = {
    "a step that must fault before it may leave"},
   {"watchdog_shorter_than_two_scans.json", "/timing/watchdog_ms", "at least two scan periods",
    "a watchdog that trips on every normal scan"},
+  {"moving_step_without_supervision.json", "/sequence/steps/1/supervision_ms", "missing required field 'supervision_ms'",
+   "a step that moves must time out rather than hang with valves open"},
 };
 // clang-format on
 

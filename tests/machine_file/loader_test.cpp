@@ -335,3 +335,42 @@ TEST(Conditions, EveryFormCompilesToItsOperation) {
 
 }  // namespace
 }  // namespace spoolstep::machine_file
+
+namespace spoolstep::machine_file {
+namespace {
+
+TEST(ErrorPaths, DuplicateKeyInsideAListIsReportedAtItsIndex) {
+  const std::string text = minimal().dump();
+  // Write "kind" twice in the second function's valve.
+  std::string doubled = text;
+  const std::string needle = "\"kind\":\"proportional_4_3_two_solenoid\"";
+  const auto at = doubled.find(needle);
+  ASSERT_NE(at, std::string::npos);
+  doubled.insert(at, needle + ",");
+  const auto result = load_machine_text(doubled, "dup.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_TRUE(has_error(result, "/functions/1/valve/kind", "duplicate key 'kind'")) << dump_errors(result);
+}
+
+TEST(ErrorPaths, KeysAreEscapedAsJsonPointerTokens) {
+  json doc = minimal();
+  doc["machine"]["a/b~c"] = 1;
+  const auto result = load_machine_text(doc.dump(), "escape.json");
+  EXPECT_TRUE(has_error(result, "/machine/a~1b~0c", "unknown field 'a/b~c'")) << dump_errors(result);
+}
+
+TEST(ErrorPaths, EveryProblemIsReportedNotJustTheFirst) {
+  json doc = minimal();
+  doc["timing"] = {{"watchdog_ms", -1}};
+  doc["functions"][1]["ramps"][0]["profile"] = "scurve";
+  doc["interlocks"][0]["guards"] = json::array({"lift.up"});
+  const auto result = load_machine_text(doc.dump(), "three.json");
+  EXPECT_EQ(result.machine, nullptr);
+  EXPECT_EQ(result.errors.size(), 3u) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/timing/watchdog_ms", "must be between 1 and 10000 (got -1)")) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/functions/1/ramps/0/profile", "Did you mean \"s_curve\"?")) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/interlocks/0/guards/0", "unknown motion 'up'")) << dump_errors(result);
+}
+
+}  // namespace
+}  // namespace spoolstep::machine_file
