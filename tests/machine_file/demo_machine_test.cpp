@@ -6,6 +6,7 @@
 
 #include <gtest/gtest.h>
 
+#include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::machine_file {
@@ -39,6 +40,13 @@ TEST_F(PressCell, LoadsWithoutErrors) {
   ASSERT_TRUE(result_->ok());
   EXPECT_EQ(name_view(config().name), "press_cell");
   EXPECT_TRUE(result_->machine->plant.is_null());
+}
+
+TEST_F(PressCell, TheCoreAcceptsTheLoadedConfiguration) {
+  ASSERT_TRUE(result_->ok());
+  const core::Status status = core::validate_config(config());
+  EXPECT_TRUE(status.is_ok()) << core::to_string(status.code()) << " in " << status.where() << " row "
+                              << status.index();
 }
 
 TEST_F(PressCell, CountsMatchTheFile) {
