@@ -123,6 +123,7 @@ class OdeintRosenbrock4 final : public Integrator {
   }
   const SolverStats& stats() const override { return eval_.stats; }
   void restart() override { h_ = 0.0; }
+  void inputs_changed() override {}  // a fresh Jacobian every step anyway
 
  private:
   struct Rhs {
@@ -218,9 +219,12 @@ class Ros2 final : public Integrator {
     h_ = 0.0;
     jac_age_ = -1;
   }
+  // A stale Jacobian can hide errors from the estimate (a spool whose rate
+  // saturates after a command step would crawl), so inputs changes refresh it.
+  void inputs_changed() override { jac_age_ = -1; }
 
  private:
-  int kMaxJacobianAge = std::getenv("JACAGE") ? std::atoi(std::getenv("JACAGE")) : 200;
+  int kMaxJacobianAge = std::getenv("JACAGE") ? std::atoi(std::getenv("JACAGE")) : 10;
   static constexpr double kGamma = 1.0 + 0.70710678118654752440;
 
   void factor(double h) {

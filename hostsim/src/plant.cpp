@@ -188,6 +188,12 @@ bool Plant::set_node_pressure(std::string_view node, double p_pa) {
 
 bool Plant::advance(double dt_s) {
   const double t_end = time_s_ + dt_s;
+  if (inputs_.spool_target != last_inputs_.spool_target || inputs_.spool_stuck != last_inputs_.spool_stuck ||
+      inputs_.pump_running != last_inputs_.pump_running || inputs_.pump_flow_factor != last_inputs_.pump_flow_factor ||
+      inputs_.extra_leak_m3_s_pa != last_inputs_.extra_leak_m3_s_pa || inputs_.extra_force_n != last_inputs_.extra_force_n) {
+    integrator_->inputs_changed();
+    last_inputs_ = inputs_;  // allocates only when something changed
+  }
   const bool ok = integrator_->advance(inputs_, y_, time_s_, t_end,
                                        [this](double, const std::vector<double>& y) { sample_switches(y); });
   if (ok) {

@@ -144,8 +144,8 @@ const ParamSpec kParams[] = {
     {"volumes[]", "volume_cm3", T::kNumber, "cm^3", 0, 0.1, 1e6, true, nullptr, "oil volume"},
 
     {"solver", "method", T::kString, "", 0, 0, 0, false, "ros2|rosenbrock4", "ros2: purpose-written Rosenbrock-W; rosenbrock4: Boost.Odeint"},
-    {"solver", "rtol", T::kNumber, "", 1e-4, 1e-10, 1e-2, false, nullptr, "relative tolerance of the local error"},
-    {"solver", "atol", T::kNumber, "bar, mm, mm/s", 1e-3, 1e-10, 1, false, nullptr, "absolute tolerance in state units (bar, mm, mm/s, stroke fraction)"},
+    {"solver", "rtol", T::kNumber, "", 1e-3, 1e-10, 1e-2, false, nullptr, "relative tolerance of the local error"},
+    {"solver", "atol", T::kNumber, "bar, mm, mm/s", 1e-2, 1e-10, 1, false, nullptr, "absolute tolerance in state units (bar, mm, mm/s, stroke fraction)"},
 };
 
 }  // namespace

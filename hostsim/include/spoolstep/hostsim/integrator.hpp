@@ -45,8 +45,10 @@ class Integrator {
   virtual bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                        const std::function<void(double, const std::vector<double>&)>& on_step) = 0;
   virtual const SolverStats& stats() const = 0;
-  /// Forget the step-size history (after a jump in the inputs or the state).
+  /// Forget the step-size history (after a jump in the state).
   virtual void restart() = 0;
+  /// The inputs changed: a reused Jacobian may no longer fit.
+  virtual void inputs_changed() = 0;
 };
 
 /// Creates the integrator for a network; `net` and `layout` must outlive it.

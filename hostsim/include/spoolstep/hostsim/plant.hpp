@@ -141,6 +141,7 @@ class Plant {
   std::unique_ptr<Integrator> integrator_;
   std::unique_ptr<Wiring> wiring_;
   NetworkInputs inputs_;
+  NetworkInputs last_inputs_;  ///< inputs of the previous advance(), to notice changes
   std::vector<double> y_;
   double time_s_ = 0.0;
   std::vector<std::string> snapshot_names_;
