@@ -161,7 +161,12 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
         }
         break;
       case Expectation::Kind::kStillWhileOff:
-        if (v[static_cast<std::size_t>(l.input_column)] == 0.0) {
+        if (v[static_cast<std::size_t>(l.input_column)] != 0.0) {
+          l.off_since = -1.0;
+        } else if (l.off_since < 0.0) {
+          l.off_since = t_s;
+        }
+        if (l.off_since >= 0.0 && (t_s - l.off_since) * 1e3 + eps >= x.grace_ms) {
           const double y = std::fabs(v[static_cast<std::size_t>(l.column)]);
           if (y > l.observed_max) l.observed_max = y;
           if (y > x.tolerance && !l.failed) { l.failed = true; l.fail_time = t_s; l.last_value = y; }
@@ -212,8 +217,8 @@ void ExpectationChecker::end(double t_end_s) {
       case Expectation::Kind::kStillWhileOff:
         r.kind = "still_while_off";
         r.passed = !l.failed;
-        r.detail = fmt::format("largest |{}| while {} was off: {} (tolerance {}){}", x.signal,
-                               machine_file::name_view(machine_.digital_inputs[x.input]),
+        r.detail = fmt::format("largest |{}| while {} was off (after {} ms): {} (tolerance {}){}", x.signal,
+                               machine_file::name_view(machine_.digital_inputs[x.input]), number(x.grace_ms),
                                l.observed_max < 0 ? "0 (never off)" : number(l.observed_max), number(x.tolerance),
                                l.failed ? fmt::format(", first exceeded at {:.3f} s", l.fail_time) : "");
         break;
