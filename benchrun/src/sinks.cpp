@@ -38,9 +38,19 @@ void CsvTraceWriter::begin(const std::vector<Signal>& signals) {
 }
 
 void CsvTraceWriter::row(double t_s, const std::vector<double>& values) {
-  out_ << fmt::format("{:.6f}", t_s);
-  for (double v : values) out_ << ',' << number(v);
-  out_ << '\n';
+  // One buffer per row: formatting straight into the stream value by value
+  // costs more than the simulation itself.
+  fmt::memory_buffer line;
+  fmt::format_to(std::back_inserter(line), "{:.6f}", t_s);
+  for (double v : values) {
+    if (v == 0.0) {
+      line.append(std::string_view(",0"));  // also folds -0
+    } else {
+      fmt::format_to(std::back_inserter(line), ",{:.9g}", v);
+    }
+  }
+  line.push_back('\n');
+  out_.write(line.data(), static_cast<std::streamsize>(line.size()));
 }
 
 // ------------------------------------------------------------------ VCD --

@@ -2,7 +2,6 @@
 // lock-step at the core's scan period, driven by a scenario. Writes
 // trace.csv, summary.json, io.vcd and report.html into --out, which appears
 // whole or not at all.
-#include <cmath>
 #include <fstream>
 #include <iostream>
 
@@ -12,132 +11,13 @@
 #include "run_common.hpp"
 #include "spoolstep/benchrun/report.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
-#include "spoolstep/hostsim/plant.hpp"
+#include "spoolstep/benchrun/plant_adapter.hpp"
 
 namespace spoolstep::cli {
 namespace {
 
-using hostsim::FaultKind;
-
-struct FaultName {
-  const char* name;
-  FaultKind kind;
-  const char* target_kind;  // what the target names
-};
-
-const FaultName kFaultNames[] = {
-    {"stuck_spool", FaultKind::kStuckSpool, "function"},
-    {"coil_open", FaultKind::kCoilOpen, "output"},
-    {"coil_short", FaultKind::kCoilShort, "output"},
-    {"sensor_wire_break", FaultKind::kSensorWireBreak, "input"},
-    {"sensor_stuck", FaultKind::kSensorStuck, "input"},
-    {"sensor_drift", FaultKind::kSensorDrift, "input"},
-    {"sensor_fail_low", FaultKind::kSensorFailLow, "input"},
-    {"sensor_fail_high", FaultKind::kSensorFailHigh, "input"},
-    {"seal_leak", FaultKind::kSealLeak, "cylinder"},
-    {"pump_failure", FaultKind::kPumpFailure, "none"},
-    {"load_change", FaultKind::kLoadChange, "cylinder"},
-};
-
-benchrun::SignalGroup group_of(const std::string& name) {
-  auto ends = [&](const char* suffix) {
-    const std::string s(suffix);
-    return name.size() >= s.size() && name.compare(name.size() - s.size(), s.size(), s) == 0;
-  };
-  if (ends(".p_bar")) return benchrun::SignalGroup::kPressure;
-  if (ends(".x_mm")) return benchrun::SignalGroup::kPosition;
-  if (ends(".v_mm_s")) return benchrun::SignalGroup::kVelocity;
-  if (ends(".spool")) return benchrun::SignalGroup::kSpool;
-  return benchrun::SignalGroup::kOther;
-}
-
-std::string unit_of(const std::string& name) {
-  const auto dot = name.rfind('.');
-  const std::string tail = dot == std::string::npos ? "" : name.substr(dot + 1);
-  if (tail == "p_bar") return "bar";
-  if (tail == "x_mm") return "mm";
-  if (tail == "v_mm_s") return "mm/s";
-  if (tail == "q_l_min") return "L/min";
-  return "";
-}
-
-// The plant model behind the bench loop's PlantPort.
-class PlantAdapter final : public benchrun::PlantPort {
- public:
-  explicit PlantAdapter(hostsim::Plant& plant) : plant_(plant) {
-    const hostsim::PlantSnapshot snap = plant_.snapshot();
-    for (const std::string& n : *snap.names) {
-      signals_.push_back(benchrun::Signal{"plant." + n, unit_of(n), benchrun::SignalKind::kAnalog, group_of(n)});
-    }
-  }
-  std::optional<std::string> last_error;
-
- private:
-  std::vector<benchrun::Signal> do_signals() const override { return signals_; }
-  void do_read_inputs(core::InputImage& inputs) const override { plant_.read_inputs(inputs); }
-  void do_sample(std::vector<double>& values) const override {
-    const hostsim::PlantSnapshot snap = plant_.snapshot();
-    values.insert(values.end(), snap.values.begin(), snap.values.end());
-  }
-  void do_apply_outputs(const core::OutputImage& outputs) override { plant_.apply_outputs(outputs); }
-  void do_advance(double dt_s) override {
-    if (!plant_.advance(dt_s) && !last_error) {
-      last_error = fmt::format("the plant integrator's step size collapsed at {:.6f} s", plant_.time_s());
-    }
-  }
-  std::optional<std::string> do_inject(const nlohmann::json& fault) override {
-    const std::string kind = fault.value("kind", "");
-    for (const FaultName& f : kFaultNames) {
-      if (kind != f.name) continue;
-      hostsim::PlantFault pf{f.kind, fault.value("target", ""), fault.value("value", 0.0)};
-      if (!plant_.inject(pf)) return fmt::format("the plant has no {} named '{}'", f.target_kind, pf.target);
-      return std::nullopt;
-    }
-    return fmt::format("unknown plant fault kind '{}'", kind);
-  }
-
-  hostsim::Plant& plant_;
-  std::vector<benchrun::Signal> signals_;
-};
-
-// Which inputs the plant drives: an input the plant writes has the same
-// value whatever it held before; one it leaves alone keeps the probe value.
-benchrun::PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& machine,
-                                 const std::vector<benchrun::Signal>& signals) {
-  benchrun::PlantFacts facts;
-  core::InputImage low{}, high{};
-  for (auto& d : high.digital) d = true;
-  for (auto& a : low.analog) a.value = -12345.0f;
-  for (auto& a : high.analog) a.value = 12345.0f;
-  plant.read_inputs(low);
-  plant.read_inputs(high);
-  facts.plant_digital.resize(machine.digital_input_count);
-  facts.plant_analog.resize(machine.analog_input_count);
-  for (std::size_t i = 0; i < facts.plant_digital.size(); ++i) facts.plant_digital[i] = low.digital[i] == high.digital[i];
-  for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = low.analog[i].value == high.analog[i].value;
-  for (const auto& s : signals) facts.signal_names.push_back(s.name);
-  facts.check_fault = [](const nlohmann::json& f) -> std::optional<std::string> {
-    if (!f.is_object()) return "a plant fault is an object: {\"kind\": ..., \"target\": ..., \"value\": ...}";
-    for (const auto& [key, value] : f.items()) {
-      if (key != "kind" && key != "target" && key != "value")
-        return fmt::format("unknown field '{}' in a plant fault (fields: kind, target, value)", key);
-    }
-    if (!f.contains("kind") || !f["kind"].is_string()) return "a plant fault needs \"kind\" (a string)";
-    const std::string kind = f["kind"].get<std::string>();
-    const FaultName* found = nullptr;
-    for (const FaultName& n : kFaultNames) found = kind == n.name ? &n : found;
-    if (found == nullptr) {
-      std::string all;
-      for (const FaultName& n : kFaultNames) all += (all.empty() ? "" : ", ") + std::string(n.name);
-      return fmt::format("unknown plant fault kind '{}' (kinds: {})", kind, all);
-    }
-    if (std::string(found->target_kind) != "none" && (!f.contains("target") || !f["target"].is_string()))
-      return fmt::format("a {} fault needs \"target\": the {} name", kind, found->target_kind);
-    if (f.contains("value") && !f["value"].is_number()) return "\"value\" must be a number";
-    return std::nullopt;
-  };
-  return facts;
-}
+using benchrun::PlantAdapter;
+using benchrun::plant_facts;
 
 struct SimOptions {
   std::string machine_path;
@@ -189,8 +69,8 @@ int run_sim(const SimOptions& o) {
   report.machine = &machine->config;
   report.duration_s = scenario->duration_s;
   report.scans = outcome.scans;
-  report.completed = outcome.completed && !adapter.last_error;
-  report.run_error = !outcome.error.empty() ? outcome.error : adapter.last_error.value_or("");
+  report.completed = outcome.completed && !adapter.integrator_error();
+  report.run_error = !outcome.error.empty() ? outcome.error : adapter.integrator_error().value_or("");
   report.expectations = checker.results();
   report.figures = &figures;
   report.plots = &plots;
