@@ -80,9 +80,7 @@ TEST(EmergencyStop, OutputsOffInTheSameScan) {
   // ISO 13850: the emergency stop overrides all other functions in all modes.
   Rig rig(make_test_machine(true));
   rig.arm(false);
-  rig.in.commands.pump_start = true;
-  rig.scan();
-  rig.in.commands.pump_start = false;
+  rig.start_pump();
   rig.run_ms(1200);
   rig.set_ma(kPressPressure, 4.0f + 16.0f * 50.0f / 250.0f);  // 50 bar: ready
   rig.run_ms(5);
@@ -328,9 +326,7 @@ TEST(ProportionalOutput, DeadbandJumpToCrackCurrentAndFullScaleAtMax) {
 TEST(PowerUnit, UnloadedStartThenLoadThenReady) {
   Rig rig(make_test_machine(true));
   rig.arm(false);
-  rig.in.commands.pump_start = true;
-  rig.scan();
-  rig.in.commands.pump_start = false;
+  rig.start_pump();
   EXPECT_TRUE(rig.out.coils[kPumpMotor]);
   EXPECT_FALSE(rig.out.coils[kDump]) << "starts unloaded";
   rig.run_ms(1000);
@@ -353,9 +349,7 @@ TEST(PowerUnit, UnloadedStartThenLoadThenReady) {
 TEST(PowerUnit, PressureNotReadyInTimeFaults) {
   Rig rig(make_test_machine(true));
   rig.arm(false);
-  rig.in.commands.pump_start = true;
-  rig.scan();
-  rig.in.commands.pump_start = false;
+  rig.start_pump();
   rig.run_ms(4100);
   EXPECT_TRUE(has_fault(rig.diag(), FaultCode::kPressureNotReady));
   EXPECT_FALSE(rig.out.coils[kPumpMotor]);

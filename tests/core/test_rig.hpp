@@ -244,6 +244,19 @@ class Rig {
     if (automatic) in.digital[kAutoSel] = true;
     scan();
   }
+  // Presses the soft pump start for one scan (the pump then runs unloaded).
+  void start_pump() {
+    in.commands.pump_start = true;
+    scan();
+    in.commands.pump_start = false;
+  }
+  // Cycle start in automatic, then the clamp closes: the chain is in the
+  // press_down step after this.
+  void start_cycle_to_press_step() {
+    press(kStart);
+    in.digital[kClampClosed] = true;
+    run_ms(5);
+  }
   const Diagnostics& diag() const { return controller.diagnostics(); }
   std::uint32_t now() const { return now_; }
 

@@ -79,9 +79,7 @@ TEST(Sequence, CycleStartRefusedWhenStartConditionsDoNotHold) {
 TEST(Sequence, SupervisionFaultNamesStepAndUnmetCondition) {
   Rig rig(make_test_machine());
   rig.arm(true);
-  rig.press(kStart);
-  rig.in.digital[kClampClosed] = true;
-  rig.run_ms(5);
+  rig.start_cycle_to_press_step();
   ASSERT_EQ(rig.diag().active_step, kPressStep);
   rig.in.digital[kPressDown] = true;  // at the bottom, but the pressure never comes
   rig.run_ms(5100);                   // supervision 5 s
@@ -125,9 +123,7 @@ TEST(Sequence, CycleStopFinishesTheCycleThenIdles) {
   Rig rig(make_test_machine());
   rig.arm(true);
   rig.in.commands.continuous = true;
-  rig.press(kStart);
-  rig.in.digital[kClampClosed] = true;
-  rig.run_ms(5);
+  rig.start_cycle_to_press_step();
   rig.in.commands.cycle_stop = true;
   rig.scan();
   rig.in.commands.cycle_stop = false;
@@ -210,9 +206,7 @@ TEST(Sequence, GuardOpenedMidCycleHoldsAndClosingItDoesNotRestart) {
 TEST(Sequence, EventLogRecordsStepChangesWithTimes) {
   Rig rig(make_test_machine());
   rig.arm(true);
-  rig.press(kStart);
-  rig.in.digital[kClampClosed] = true;
-  rig.run_ms(5);
+  rig.start_cycle_to_press_step();
   const EventLog& log = rig.diag().events;
   bool saw_clamp = false, saw_press = false;
   std::uint32_t last_time = 0;

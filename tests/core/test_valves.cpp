@@ -91,9 +91,7 @@ TEST(StopCategory2, ControlledStopKeepsPowerAvailable) {
   c.interlocks[kOilTrip].stop_category = StopCategory::kCat2;
   Rig rig(c);
   rig.arm(false);
-  rig.in.commands.pump_start = true;
-  rig.scan();
-  rig.in.commands.pump_start = false;
+  rig.start_pump();
   rig.run_ms(1000);
   rig.set_ma(kPressPressure, 4.0f + 16.0f * 30.0f / 250.0f);
   rig.run_ms(5);
