@@ -349,6 +349,11 @@ void ChangePrinter::begin(const std::vector<Signal>& signals) {
 std::string ChangePrinter::describe(std::size_t column, double value) const {
   const Signal& s = signals_[column];
   if (s.name == "state") return state_name(static_cast<std::uint8_t>(value));
+  if (s.name == "pump") {
+    static const char* const kPump[] = {"off", "starting_unloaded", "loading", "ready"};
+    const auto i = static_cast<std::size_t>(value);
+    return i < 4 ? kPump[i] : "?";
+  }
   if (s.name == "step") {
     const auto i = static_cast<std::size_t>(value);
     return i < machine_.step_count ? std::string(machine_file::name_view(machine_.steps[i].name)) : "?";
