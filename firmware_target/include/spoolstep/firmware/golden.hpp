@@ -18,16 +18,14 @@ namespace spoolstep::firmware {
 inline constexpr std::size_t kGoldenAnalogChannels = 8;
 
 /// Bits of GoldenFrame::commands (OperatorCommands).
-enum GoldenCommand : std::uint32_t {
-  kCmdReset = 1u << 0,
-  kCmdCycleStart = 1u << 1,
-  kCmdCycleStop = 1u << 2,
-  kCmdSelectAuto = 1u << 3,
-  kCmdContinuous = 1u << 4,
-  kCmdPumpStart = 1u << 5,
-  kCmdPumpStop = 1u << 6,
-  kCmdJogShift = 8,  ///< then 2 bits per function: 1 extend, 2 retract
-};
+inline constexpr std::uint32_t kCmdReset = 1u << 0;
+inline constexpr std::uint32_t kCmdCycleStart = 1u << 1;
+inline constexpr std::uint32_t kCmdCycleStop = 1u << 2;
+inline constexpr std::uint32_t kCmdSelectAuto = 1u << 3;
+inline constexpr std::uint32_t kCmdContinuous = 1u << 4;
+inline constexpr std::uint32_t kCmdPumpStart = 1u << 5;
+inline constexpr std::uint32_t kCmdPumpStop = 1u << 6;
+inline constexpr std::uint32_t kCmdJogShift = 8;  ///< then 2 bits per function: 1 extend, 2 retract
 
 /// `repeat` scans, each `period_us` after the previous one, with these inputs.
 struct GoldenFrame {
@@ -37,7 +35,7 @@ struct GoldenFrame {
   std::uint32_t digital_age_us;
   std::uint32_t analog_age_us;   ///< same age for every analog channel
   std::uint32_t analog_healthy;  ///< bit i = channel i healthy
-  std::uint32_t commands;        ///< GoldenCommand bits
+  std::uint32_t commands;        ///< kCmd* bits
   std::array<std::uint32_t, kGoldenAnalogChannels> analog_bits;  ///< IEEE-754 bits of each value
 };
 
