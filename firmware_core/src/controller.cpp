@@ -203,7 +203,8 @@ void Controller::evaluate_conditions(const InputImage& in, std::uint32_t dt_us) 
         break;
       case ConditionOp::kModeIs:
         v = n.b == 0 ? diag_.state == MachineState::kManual
-                     : (diag_.state == MachineState::kAutoIdle || chain_running(diag_.state));
+                     : (diag_.state == MachineState::kAutoIdle || diag_.state == MachineState::kAutoHeld ||
+                        chain_running(diag_.state));
         break;
       case ConditionOp::kPowerUnitReady:
         v = !c.power_unit.present || diag_.power_unit == PowerUnitState::kReady;
@@ -312,7 +313,7 @@ void Controller::apply_event(MachineEvent event, std::uint32_t now_us) {
   log(now_us, EventCode::kStateChanged, static_cast<std::uint8_t>(result.next),
       static_cast<std::uint16_t>(old));
   if (result.next == MachineState::kManual || result.next == MachineState::kAutoIdle ||
-      (result.next == MachineState::kAutoCycle && old != MachineState::kAutoCycle)) {
+      (result.next == MachineState::kAutoCycle && old == MachineState::kAutoIdle)) {
     diag_.active_step = 0;  // the chain starts from its initial step
     diag_.step_elapsed_us = 0;
     supervision_raised_ = false;
@@ -441,6 +442,7 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
   const MachineConfig& c = *config_;
   const bool pressure_available =
       !c.power_unit.present || diag_.power_unit == PowerUnitState::kReady;
+  bool hold_chain = false;
   const StepConfig* step = chain_running(diag_.state) && c.step_count > 0
                                ? &c.steps[diag_.active_step]
                                : nullptr;
@@ -455,14 +457,16 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       const bool ret = node(f.jog_retract) || in.commands.jog[i] == Direction::kRetract;
       // A jog held while the machine arrives in manual (reset, selector) must be
       // released and pressed again: a reset never starts motion by itself.
-      if (!ext && !ret) r.jog_released = true;
-      if (ext != ret && r.jog_released) {  // both pressed means neither
+      if (!ext) r.rearm_extend = false;
+      if (!ret) r.rearm_retract = false;
+      const bool armed = ext ? !r.rearm_extend : !r.rearm_retract;
+      if (ext != ret && armed) {  // both pressed means neither
         want = ext ? Direction::kExtend : Direction::kRetract;
         speed = f.jog_speed_percent * 0.01f;
         ramp = 0;
       }
     } else {
-      r.jog_released = false;
+      r.rearm_extend = r.rearm_retract = true;
     }
     if (step != nullptr) {
       for (std::uint8_t k = 0; k < step->action_count; ++k) {
@@ -484,16 +488,17 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       stop = worst_category() == StopCategory::kCat0 ? StopKind::kImmediate : StopKind::kQuick;
       want = Direction::kNone;
     }
+    if (diag_.state == MachineState::kAutoHeld) stop = StopKind::kQuick;
     const std::uint32_t bit = motion_bit(i, want);
     diag_.functions[i].blocked = false;
-    if (want != Direction::kNone && (blocked_motions_ & bit)) {
+    if (want != Direction::kNone && ((blocked_motions_ & bit) || !pressure_available)) {
       diag_.functions[i].blocked = true;
       stop = (immediate_motions_ & bit) ? StopKind::kImmediate : StopKind::kQuick;
-      want = Direction::kNone;
-    }
-    if (want != Direction::kNone && !pressure_available) {
-      diag_.functions[i].blocked = true;
-      stop = StopKind::kQuick;
+      // The lost permissive must not let the motion restart by itself when
+      // it comes back: manual needs the jog pressed again, automatic a new
+      // cycle start.
+      (want == Direction::kExtend ? r.rearm_extend : r.rearm_retract) = true;
+      if (chain_running(diag_.state)) hold_chain = true;
       want = Direction::kNone;
     }
     // End of travel and the position window cut the motion at once.
@@ -510,11 +515,15 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
         want = Direction::kNone;
       }
     }
+    // A stop keeps its severity until the function is at rest: a quick stop
+    // is not relaxed into a normal deceleration halfway.
+    if (want == Direction::kNone && r.side != Direction::kNone && stop < r.stop) stop = r.stop;
     r.demand = want;
     r.speed = want == Direction::kNone ? 0.0f : speed;
     r.stop = stop;
     if (want != Direction::kNone) r.ramp_index = ramp;
   }
+  if (hold_chain) apply_event(MachineEvent::kPermissiveHold, now_us);
 }
 
 void Controller::drive_function(std::uint8_t index, std::uint32_t dt_us) {

@@ -126,6 +126,12 @@ std::string got(const json& value) {
   return text;
 }
 
+/// The value with its JSON type, for type errors: `string "200"`, `null`.
+std::string got_typed(const json& value) {
+  if (value.is_null()) return "null";
+  return std::string(value.type_name()) + " " + got(value);
+}
+
 void set_name(core::Name& name, std::string_view text) {
   name.text.fill('\0');
   const std::size_t n = std::min(text.size(), core::kMaxNameLength);
@@ -254,14 +260,14 @@ class Loader {
   // -- structure
   bool expect_object(const json& j, const std::string& path) {
     if (j.is_object()) return true;
-    fail(path, fmt::format("must be an object {{...}} (got {} {})", j.type_name(), got(j)),
+    fail(path, fmt::format("must be an object {{...}} (got {})", got_typed(j)),
          "Write this part as a JSON object with named fields.");
     return false;
   }
 
   bool expect_array(const json& j, const std::string& path) {
     if (j.is_array()) return true;
-    fail(path, fmt::format("must be a list [...] (got {} {})", j.type_name(), got(j)),
+    fail(path, fmt::format("must be a list [...] (got {})", got_typed(j)),
          "Write this part as a JSON list.");
     return false;
   }
@@ -316,7 +322,7 @@ class Loader {
       return std::stod(std::string(p.default_value));
     }
     if (!j->is_number()) {
-      fail(field, fmt::format("must be a number (got {} {})", j->type_name(), got(*j)),
+      fail(field, fmt::format("must be a number (got {})", got_typed(*j)),
            fmt::format("Write a number{}{} without quotes.", p.unit.empty() ? "" : " in ", p.unit));
       return std::nullopt;
     }
@@ -351,7 +357,7 @@ class Loader {
       return std::string(p.default_value);
     }
     if (!j->is_string()) {
-      fail(field, fmt::format("must be a string (got {} {})", j->type_name(), got(*j)),
+      fail(field, fmt::format("must be a string (got {})", got_typed(*j)),
            "Write the value in double quotes.");
       return std::nullopt;
     }
@@ -432,8 +438,9 @@ class Loader {
     const NameIndex& index = index_of(kind);
     const auto it = index.find(name);
     if (it != index.end()) return it->second;
-    for (const RefKind other : {RefKind::kDigital, RefKind::kAnalog, RefKind::kCoil, RefKind::kProp}) {
-      if (other != kind && index_of(other).count(name) > 0 && kind <= RefKind::kProp) {
+    for (const RefKind other : {RefKind::kDigital, RefKind::kAnalog, RefKind::kCoil, RefKind::kProp, RefKind::kFunction,
+                                RefKind::kStep, RefKind::kInterlock, RefKind::kTwoHand}) {
+      if (other != kind && index_of(other).count(name) > 0) {
         fail(field, fmt::format("'{}' is a {}, not a {}", name, ref_noun(other), ref_noun(kind)),
              fmt::format("Name a {} declared under {}.", ref_noun(kind), ref_home(kind)));
         return core::kNoIndex8;
@@ -510,6 +517,7 @@ class Loader {
   NameIndex digital_, analog_, coils_, props_, functions_, steps_, interlocks_, two_hands_;
   std::map<std::uint8_t, std::string> coil_owner_, prop_owner_;
   std::vector<std::map<std::string, std::uint8_t>> ramp_names_;  // per function
+  std::vector<bool> kind_known_;  // per function: valve kind read, so kind-specific checks apply
 
   // Interlocks compile on first use so that a reference finds its target's
   // root node already compiled (children before parents).
@@ -559,8 +567,7 @@ std::uint16_t Loader::compile(const json& c, const std::string& path) {
     return add_node(node, name, path);
   }
   if (!c.is_object()) {
-    fail(path, fmt::format("a condition must be true, false, a digital input name or an object (got {} {})",
-                           c.type_name(), got(c)),
+    fail(path, fmt::format("a condition must be true, false, a digital input name or an object (got {})", got_typed(c)),
          "See the condition forms in config/README.md.");
     return core::kNoCondition;
   }
@@ -716,12 +723,14 @@ std::uint16_t Loader::compile(const json& c, const std::string& path) {
       deferred_.push_back([this, function, extended, field] {
         const auto& fc = cfg_.functions[function];
         const std::uint8_t end = extended ? fc.extended_end_input : fc.retracted_end_input;
-        if (end == core::kNoIndex8 && fc.position_input == core::kNoIndex8) {
+        // The core reads only the end-of-travel input for this state, not the
+        // position window, so without the input the condition never holds.
+        if (end == core::kNoIndex8) {
           fail(field,
-               fmt::format("function '{}' has no {} input and no position window to tell its {} end",
-                           name_view(fc.name), extended ? "extended_end" : "retracted_end",
-                           extended ? "extended" : "retracted"),
-               fmt::format("Add \"{}\" or \"position\" to the function.", extended ? "extended_end" : "retracted_end"));
+               fmt::format("function '{}' has no {} input, so this condition could never be true",
+                           name_view(fc.name), extended ? "extended_end" : "retracted_end"),
+               fmt::format("Add \"{}\" to the function, or test its position input with {{\"analog\": ...}}.",
+                           extended ? "extended_end" : "retracted_end"));
         }
       });
     }
@@ -1167,6 +1176,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
                              [&](const ValveKindInfo& k) { return k.key == v->at("kind").get<std::string>(); });
   }
   const bool proportional = known_kind && core::is_proportional(fc.valve);
+  kind_known_[index] = known_kind;
 
   fc.extended_end_input = member(f, path, "extended_end") ? read_ref(f, path, "extended_end") : core::kNoIndex8;
   fc.retracted_end_input = member(f, path, "retracted_end") ? read_ref(f, path, "retracted_end") : core::kNoIndex8;
@@ -1243,10 +1253,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
       auto& rc = fc.ramps[i];
       check_keys(r, p, {"name", "description", "profile", "extend_accel_ms", "extend_decel_ms", "retract_accel_ms",
                         "retract_decel_ms", "jerk_ms"});
-      if (r.contains("description")) {
-        // Ramps have no table row for description; accept free text.
-        if (!r.at("description").is_string()) fail(child(p, "description"), "must be a string", "Write text in quotes.");
-      }
+      read_string(r, p, "description");
       const std::string name = read_name(r, p);
       set_name(rc.name, name);
       if (claim_name(names, name, p, "ramp")) ramp_names_[index][name] = static_cast<std::uint8_t>(i);
@@ -1284,7 +1291,7 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     const json& g = (*list)[i];
     const std::string p = child(gp, i);
     if (!g.is_string()) {
-      fail(p, fmt::format("must be a string (got {} {})", g.type_name(), got(g)), "Write the guard in double quotes.");
+      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the guard in double quotes.");
       continue;
     }
     const std::string text = g.get<std::string>();
@@ -1451,6 +1458,7 @@ void Loader::load_sequence(const json& doc) {
              "One action per function and step.");
       }
       const auto& fc = cfg_.functions[f];
+      if (f >= kind_known_.size() || !kind_known_[f]) continue;  // the valve's own error says enough
       if (!core::is_proportional(fc.valve)) {
         if (a.contains("ramp")) {
           fail(child(q, "ramp"), fmt::format("'{}' has a solenoid valve: solenoid valves shift fully and cannot be ramped", name_view(fc.name)),
@@ -1474,7 +1482,7 @@ void Loader::load_sequence(const json& doc) {
       act.ramp = 0;
       if (a.contains("ramp")) {
         const auto ramp = read_string(a, q, "ramp");
-        if (ramp) {
+        if (ramp && fc.ramp_count > 0) {  // no ramps at all is reported at the function
           const auto& names = ramp_names_[f];
           const auto it = names.find(*ramp);
           if (it != names.end()) {
@@ -1491,6 +1499,15 @@ void Loader::load_sequence(const json& doc) {
       }
     }
     st.action_count = static_cast<std::uint8_t>(na);
+    // A step that moves something and is never timed out can hang with the
+    // valves open (a lost end switch, a stalled cylinder): insist on a limit.
+    if (na > 0 && !item.contains("supervision_ms")) {
+      missing(p, "supervision_ms", "a step with actions moves something; give the longest time it may take (ms).");
+    } else if (na > 0 && st.supervision_us == 0 && item.at("supervision_ms").is_number_integer() &&
+               item.at("supervision_ms").get<double>() == 0.0) {
+      fail(child(p, "supervision_ms"), "a step with actions must be supervised (0 turns supervision off)",
+           "Give the longest time the step's motions may take.");
+    }
   }
 
   const json* transitions = member(*seq, path, "transitions");
@@ -1524,7 +1541,7 @@ void Loader::load_sequence(const json& doc) {
   }
   cfg_.transition_count = static_cast<std::uint8_t>(nt);
   for (std::size_t i = 0; i < n; ++i) {
-    if (!has_exit[i] && (*steps)[i].is_object()) {
+    if (!has_exit[i] && (*steps)[i].is_object() && !name_view(cfg_.steps[i].name).empty()) {
       fail(child(sp, i), fmt::format("step '{}' has no transition out of it", name_view(cfg_.steps[i].name)),
            "Add a transition from it; the sequence would stop there for good.");
     }
@@ -1559,6 +1576,7 @@ void Loader::load(const json& doc) {
     const std::size_t n = capped(functions->size(), core::kMaxFunctions, "kMaxFunctions", "/functions", "functions");
     cfg_.function_count = static_cast<std::uint8_t>(n);
     ramp_names_.resize(n);
+    kind_known_.assign(n, false);
     for (std::size_t i = 0; i < n; ++i) {
       const std::string p = child("/functions", i);
       if (expect_object((*functions)[i], p)) load_function((*functions)[i], p, static_cast<std::uint8_t>(i));

@@ -298,8 +298,8 @@ void write_parameter_reference(std::ostream& out) {
     if (!p.limit_note.empty()) description += " " + std::string(p.limit_note);
     out << fmt::format("| `{}` | {} | {} | {} | {} | {} | {} | {} |\n", p.key, type, p.unit, p.required ? "yes" : "no",
                        p.default_value.empty() ? (p.required ? "" : "none") : std::string(p.default_value),
-                       numeric || p.type == ParamType::kRange ? fmt::format("{:g}", p.min) : std::string(),
-                       numeric || p.type == ParamType::kRange ? fmt::format("{:g}", p.max) : std::string(), description);
+                       numeric ? fmt::format("{:g}", p.min) : std::string(),
+                       numeric ? fmt::format("{:g}", p.max) : std::string(), description);
   }
 }
 

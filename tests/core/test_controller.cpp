@@ -157,8 +157,14 @@ TEST(Permissive, LossStopsGuardedMotionWithItsCategory) {
   EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f) << "20 % at 50 ms per full scale: 10 ms";
   EXPECT_EQ(rig.diag().state, MachineState::kManual) << "a permissive does not latch";
   rig.in.digital[kGuardClosed] = true;
+  rig.run_ms(50);
+  EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f)
+      << "closing the guard does not restart a jog that is still held";
+  rig.in.commands.jog[kPress] = Direction::kNone;
   rig.scan();
-  EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f) << "hold-to-run resumes while held";
+  rig.in.commands.jog[kPress] = Direction::kExtend;
+  rig.scan();
+  EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f) << "a fresh hold-to-run works";
 }
 
 TEST(Permissive, Category0CutsAtOnce) {
@@ -336,6 +342,11 @@ TEST(PowerUnit, UnloadedStartThenLoadThenReady) {
   rig.set_ma(kPressPressure, 4.0f + 16.0f * 30.0f / 250.0f);
   rig.run_ms(10);
   EXPECT_EQ(rig.diag().power_unit, PowerUnitState::kReady);
+  EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f) << "pressure coming up does not start a held jog";
+  rig.in.commands.jog[kPress] = Direction::kNone;
+  rig.scan();
+  rig.in.commands.jog[kPress] = Direction::kExtend;
+  rig.scan();
   EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f);
 }
 

@@ -41,6 +41,12 @@ const Row kRows[] = {
   {S::kStopping, E::kFaultImmediate, S::kFaulted, true, "a category 0 fault cuts a controlled stop short"},
   {S::kStopping, E::kReset, S::kStopping, false, "reset during a stop is ignored"},
   {S::kFaulted, E::kReset, S::kManual, true, "reset returns to manual, never to motion"},
+  {S::kAutoCycle, E::kPermissiveHold, S::kAutoHeld, true, "a lost permissive holds the chain"},
+  {S::kAutoEndCycle, E::kPermissiveHold, S::kAutoHeld, true, "also while ending the cycle"},
+  {S::kAutoHeld, E::kCycleStart, S::kAutoCycle, true, "only a new start resumes"},
+  {S::kAutoHeld, E::kReset, S::kAutoHeld, false, "reset does not resume a held cycle"},
+  {S::kAutoHeld, E::kSelectManual, S::kManual, true, "selector to manual"},
+  {S::kAutoHeld, E::kCycleComplete, S::kAutoHeld, false, "a held chain does not advance"},
   {S::kFaulted, E::kCycleStart, S::kFaulted, false, "faulted ignores cycle start"},
   {S::kFaulted, E::kSelectAuto, S::kFaulted, false, "faulted ignores the selector"},
 };
@@ -73,8 +79,9 @@ TEST(MachineStateTable, EveryRunningStateHandlesBothFaultKinds) {
 }
 
 TEST(MachineStateTable, NoDuplicateRows) {
-  for (std::size_t i = 0; i < kStateTable.size(); ++i) {
-    for (std::size_t j = i + 1; j < kStateTable.size(); ++j) {
+  const std::size_t rows = sizeof(kStateTable) / sizeof(kStateTable[0]);
+  for (std::size_t i = 0; i < rows; ++i) {
+    for (std::size_t j = i + 1; j < rows; ++j) {
       EXPECT_FALSE(kStateTable[i].from == kStateTable[j].from &&
                    kStateTable[i].event == kStateTable[j].event)
           << "rows " << i << " and " << j;

@@ -180,6 +180,33 @@ TEST(Sequence, SelectorToManualLeavesTheCycle) {
   EXPECT_FALSE(rig.out.coils[kClampY1]);
 }
 
+TEST(Sequence, GuardOpenedMidCycleHoldsAndClosingItDoesNotRestart) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.press(kStart);
+  rig.in.digital[kClampClosed] = true;
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(300);
+  ASSERT_EQ(rig.diag().active_step, kPressStep);
+  ASSERT_GT(rig.out.prop[kPressYa].value, 0.0f);
+  rig.in.digital[kGuardClosed] = false;
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld);
+  rig.run_ms(100);
+  EXPECT_TRUE(no_valve_driven(rig.out)) << "quick stop done, clamp released by the guard";
+  rig.in.digital[kGuardClosed] = true;
+  rig.run_ms(500);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld) << "closing the guard is not a start";
+  EXPECT_TRUE(no_valve_driven(rig.out));
+  EXPECT_EQ(rig.diag().active_step, kPressStep) << "the step is kept";
+  rig.press(kStart);
+  rig.run_ms(50);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
+  EXPECT_EQ(rig.diag().active_step, kPressStep) << "resumes where it stopped";
+  EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f);
+  EXPECT_TRUE(rig.out.coils[kClampY1]);
+}
+
 TEST(Sequence, EventLogRecordsStepChangesWithTimes) {
   Rig rig(make_test_machine());
   rig.arm(true);

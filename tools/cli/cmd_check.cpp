@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "command_registry.hpp"
+#include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::cli {
@@ -36,6 +37,16 @@ int run_check(const CheckOptions& options) {
     return kExitBadInput;
   }
   const auto& c = result.machine->config;
+  // The core checks the configuration again on its own; a disagreement is a
+  // loader bug, and the file must not reach a machine.
+  const core::Status core_check = core::validate_config(c);
+  if (!core_check.is_ok()) {
+    std::cerr << fmt::format("{}: the control core rejects the loaded configuration ({} in {} row {}). "
+                             "This is a spoolstep bug: please report it with the file.\n",
+                             options.machine_file, core::to_string(core_check.code()), core_check.where(),
+                             core_check.index());
+    return kExitInternal;
+  }
   std::cout << fmt::format(
       "{}: ok ({} functions, {} interlocks, {} steps, {} transitions, {} digital + {} analog inputs, "
       "{} coils + {} proportional outputs, {} condition nodes)\n",

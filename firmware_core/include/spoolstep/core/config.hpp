@@ -60,7 +60,8 @@ enum class ValveCentre : std::uint8_t {
   kTandem,        ///< P to T, A and B blocked
   kFloat,         ///< P blocked, A and B to T
   kOpen,          ///< P, T, A and B all joined
-  kBleed,         ///< P blocked, A and B bleed to T through small orifices ("motor" spool)
+  kBleed,         ///< P blocked, A and B bleed to T through small orifices (a throttled float;
+                  ///< catalogues differ on which of float and bleed they call a "motor" spool)
   kRegenerative,  ///< P, A and B joined, T blocked
 };
 

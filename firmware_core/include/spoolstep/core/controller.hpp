@@ -50,7 +50,10 @@ class Controller {
     float speed = 0.0f;                        // demanded |speed| 0..1
     StopKind stop = StopKind::kNone;
     bool waiting_reversal = false;
-    bool jog_released = false;  // manual: the jog was seen released since entering manual
+    // Manual: a jog direction that must be seen released before it moves
+    // again (set on entering manual and when a permissive stopped it).
+    bool rearm_extend = true;
+    bool rearm_retract = true;
   };
 
   void evaluate_conditions(const InputImage& inputs, std::uint32_t dt_us);

@@ -54,10 +54,12 @@ enum class MachineState : std::uint8_t {
   kAutoIdle,       ///< automatic selected, no cycle: functions stopped, pump may run
   kAutoCycle,      ///< the step chain runs
   kAutoEndCycle,   ///< cycle stop requested: the chain finishes its cycle, then idles
+  kAutoHeld,       ///< a permissive stopped the chain mid-cycle: no motion, the step is kept;
+                   ///< only a new cycle start resumes (closing a guard never restarts by itself)
   kStopping,       ///< a category 1 stop ramps down; then kFaulted with power off
   kFaulted,        ///< latched fault or emergency stop: no motion; needs release and reset
 };
-inline constexpr std::size_t kMachineStateCount = 7;
+inline constexpr std::size_t kMachineStateCount = 8;
 
 enum class FaultCode : std::uint8_t {
   kNone = 0,

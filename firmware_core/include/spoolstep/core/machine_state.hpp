@@ -21,8 +21,9 @@ enum class MachineEvent : std::uint8_t {
   kCycleStop,           ///< stop at end of cycle
   kCycleComplete,       ///< the chain is back at its initial step, single cycle
   kCycleRepeat,         ///< the chain is back at its initial step, continuous
+  kPermissiveHold,      ///< a permissive blocked a motion the chain demanded
 };
-inline constexpr std::size_t kMachineEventCount = 10;
+inline constexpr std::size_t kMachineEventCount = 11;
 
 struct StateTransition {
   MachineState from;
@@ -31,7 +32,7 @@ struct StateTransition {
 };
 
 // clang-format off
-inline constexpr std::array<StateTransition, 27> kStateTable{{
+inline constexpr StateTransition kStateTable[] = {
   {MachineState::kPowerUp,      MachineEvent::kFaultImmediate,  MachineState::kFaulted},
   {MachineState::kPowerUp,      MachineEvent::kFaultControlled, MachineState::kFaulted},   // nothing moves yet
   {MachineState::kPowerUp,      MachineEvent::kReset,           MachineState::kManual},
@@ -48,11 +49,17 @@ inline constexpr std::array<StateTransition, 27> kStateTable{{
   {MachineState::kAutoCycle,    MachineEvent::kCycleStop,       MachineState::kAutoEndCycle},
   {MachineState::kAutoCycle,    MachineEvent::kCycleComplete,   MachineState::kAutoIdle},
   {MachineState::kAutoCycle,    MachineEvent::kCycleRepeat,     MachineState::kAutoCycle},
+  {MachineState::kAutoCycle,    MachineEvent::kPermissiveHold,  MachineState::kAutoHeld},
   {MachineState::kAutoEndCycle, MachineEvent::kFaultImmediate,  MachineState::kFaulted},
   {MachineState::kAutoEndCycle, MachineEvent::kFaultControlled, MachineState::kStopping},
   {MachineState::kAutoEndCycle, MachineEvent::kSelectManual,    MachineState::kManual},
   {MachineState::kAutoEndCycle, MachineEvent::kCycleComplete,   MachineState::kAutoIdle},
   {MachineState::kAutoEndCycle, MachineEvent::kCycleRepeat,     MachineState::kAutoIdle},
+  {MachineState::kAutoEndCycle, MachineEvent::kPermissiveHold,  MachineState::kAutoHeld},  // the end-of-cycle request is dropped
+  {MachineState::kAutoHeld,     MachineEvent::kFaultImmediate,  MachineState::kFaulted},
+  {MachineState::kAutoHeld,     MachineEvent::kFaultControlled, MachineState::kStopping},
+  {MachineState::kAutoHeld,     MachineEvent::kSelectManual,    MachineState::kManual},
+  {MachineState::kAutoHeld,     MachineEvent::kCycleStart,      MachineState::kAutoCycle},  // resumes the kept step
   {MachineState::kStopping,     MachineEvent::kFaultImmediate,  MachineState::kFaulted},
   {MachineState::kStopping,     MachineEvent::kStopComplete,    MachineState::kFaulted},
   {MachineState::kFaulted,      MachineEvent::kReset,           MachineState::kManual},
@@ -61,7 +68,7 @@ inline constexpr std::array<StateTransition, 27> kStateTable{{
   {MachineState::kFaulted,      MachineEvent::kFaultControlled, MachineState::kFaulted},
   {MachineState::kFaulted,      MachineEvent::kFaultImmediate,  MachineState::kFaulted},
   {MachineState::kStopping,     MachineEvent::kFaultControlled, MachineState::kStopping},
-}};
+};
 // clang-format on
 
 struct TransitionResult {
@@ -85,7 +92,8 @@ constexpr bool chain_running(MachineState state) {
 /// True in the states where the pump may be started.
 constexpr bool pump_may_start(MachineState state) {
   return state == MachineState::kManual || state == MachineState::kAutoIdle ||
-         state == MachineState::kAutoCycle || state == MachineState::kAutoEndCycle;
+         state == MachineState::kAutoCycle || state == MachineState::kAutoEndCycle ||
+         state == MachineState::kAutoHeld;
 }
 
 }  // namespace spoolstep::core

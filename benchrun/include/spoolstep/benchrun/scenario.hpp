@@ -1,0 +1,109 @@
+#pragma once
+/// Scenarios ("format": "spoolstep-scenario/1"): a timeline of operator
+/// actions, input changes and plant faults, plus expectations checked
+/// against the run. Loaded against a machine so every name is resolved
+/// once, with errors that name the file, the JSON path and the reason.
+#include <cstdint>
+#include <functional>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "spoolstep/core/config.hpp"
+
+namespace spoolstep::benchrun {
+
+inline constexpr const char* kScenarioFormatTag = "spoolstep-scenario/1";
+
+struct TimelineEvent {
+  enum class Kind {
+    kSetDigital,    ///< index, value
+    kSetAnalog,     ///< index, value in engineering units (converted to mA for 4-20 mA inputs)
+    kSetAnalogMa,   ///< index, raw loop current in mA
+    kAnalogHealth,  ///< index, healthy flag
+    kCommand,       ///< operator command by name (HMI), level
+    kJog,           ///< function index, direction (HMI hold-to-run)
+    kPlantFault,    ///< raw JSON handed to the plant
+    kDelayScan,     ///< stall the next scan by `value` microseconds (scan watchdog tests)
+  };
+  std::uint64_t at_us = 0;
+  Kind kind = Kind::kSetDigital;
+  std::uint8_t index = 0;
+  double value = 0.0;
+  std::string command;        ///< kCommand: reset, cycle_start, cycle_stop, select_auto, continuous, pump_start, pump_stop
+  core::Direction direction = core::Direction::kNone;
+  nlohmann::json plant_fault;
+  std::string json_path;      ///< where it came from, for run-time errors
+};
+
+struct Expectation {
+  enum class Kind {
+    kStepReached,  ///< step reached before before_s
+    kStateAt,      ///< machine state equals `state` at at_s
+    kStaysWithin,  ///< signal within [min, max] over [from_s, to_s]
+    kStillWhileOff,///< |signal| <= tolerance whenever digital input `input` is false
+    kSafeWithin,   ///< every valve output off within within_ms after at_s
+    kFinalWithin,  ///< signal within [min, max] at the end
+  };
+  std::string name;
+  Kind kind = Kind::kStepReached;
+  std::string signal;
+  std::uint8_t step = 0;
+  std::uint8_t state = 0;
+  std::uint8_t input = 0;
+  double min = -1e300;
+  double max = 1e300;
+  double tolerance = 0.0;
+  double at_s = 0.0;
+  double before_s = 0.0;
+  double from_s = 0.0;
+  double to_s = 1e300;
+  double within_ms = 0.0;
+  std::string json_path;
+};
+
+struct Scenario {
+  std::string source_path;
+  std::string description;
+  double duration_s = 0.0;
+  std::vector<TimelineEvent> events;  ///< sorted by time, stable
+  std::vector<Expectation> expectations;
+};
+
+struct ScenarioError {
+  std::string file, json_path, reason, hint;
+  /// "file: /path: reason. hint"
+  std::string to_string() const;
+};
+
+/// What the scenario loader needs to know about the plant, if there is one.
+struct PlantFacts {
+  /// Digital inputs the plant drives (a scenario may not set them).
+  std::vector<bool> plant_digital;
+  /// Analog inputs the plant drives.
+  std::vector<bool> plant_analog;
+  /// Signal names the plant adds to the trace (for expectation checks).
+  std::vector<std::string> signal_names;
+  /// Checks one plant fault object; returns an error text or nullopt.
+  std::function<std::optional<std::string>(const nlohmann::json&)> check_fault;
+};
+
+struct ScenarioLoad {
+  std::unique_ptr<Scenario> scenario;  ///< null whenever errors is non-empty
+  std::vector<ScenarioError> errors;
+  bool ok() const { return scenario != nullptr && errors.empty(); }
+};
+
+/// Reads a scenario file and resolves it against `machine`. `plant` is null
+/// for runs without a plant model (then plant faults are errors).
+ScenarioLoad load_scenario_file(const std::string& path, const core::MachineConfig& machine,
+                                const PlantFacts* plant);
+
+/// Same, from text; `display_name` stands for the file in errors.
+ScenarioLoad load_scenario_text(const std::string& text, const std::string& display_name,
+                                const core::MachineConfig& machine, const PlantFacts* plant);
+
+}  // namespace spoolstep::benchrun

@@ -1,0 +1,48 @@
+#pragma once
+/// Shared steps of the commands that run a machine: load the machine file
+/// and the scenario, print every error the same way, run with progress.
+#include <iostream>
+#include <memory>
+#include <string>
+
+#include "spoolstep/benchrun/runner.hpp"
+#include "spoolstep/benchrun/scenario.hpp"
+#include "spoolstep/machine_file/machine_file.hpp"
+
+namespace spoolstep::cli {
+
+/// Loads a machine file; prints every error to stderr and returns null on failure.
+inline std::unique_ptr<machine_file::LoadedMachine> load_machine_or_report(const std::string& path,
+                                                                           const char* command) {
+  machine_file::LoadResult result = machine_file::load_machine_file(path);
+  if (!result.ok()) {
+    for (const auto& e : result.errors) std::cerr << "spoolstep " << command << ": " << e.to_string() << "\n";
+    return nullptr;
+  }
+  return std::move(result.machine);
+}
+
+/// Loads a scenario against a machine; prints every error and returns null on failure.
+inline std::unique_ptr<benchrun::Scenario> load_scenario_or_report(const std::string& path,
+                                                                   const core::MachineConfig& machine,
+                                                                   const benchrun::PlantFacts* plant,
+                                                                   const char* command) {
+  benchrun::ScenarioLoad result = benchrun::load_scenario_file(path, machine, plant);
+  if (!result.ok()) {
+    for (const auto& e : result.errors) std::cerr << "spoolstep " << command << ": " << e.to_string() << "\n";
+    return nullptr;
+  }
+  return std::move(result.scenario);
+}
+
+/// Progress lines on stderr, one per tenth of the run.
+inline benchrun::RunOptions progress_on_stderr(const char* command) {
+  benchrun::RunOptions options;
+  options.progress = [command](double done_s, double total_s) {
+    std::cerr << "spoolstep " << command << ": " << static_cast<int>(100.0 * done_s / total_s + 0.5) << "% ("
+              << done_s << " of " << total_s << " s simulated)\n";
+  };
+  return options;
+}
+
+}  // namespace spoolstep::cli
