@@ -7,7 +7,9 @@
 # (CI=true), where it is a failure (exit 1).
 #
 # Environment:
-#   SPOOLSTEP_HOST_BUILD_DIR  host build tree (default: build/host)
+#   SPOOLSTEP_HOST_BUILD_DIR  host build tree (default: build/host-debug when
+#                             it is already configured, as scripts/test-all.sh
+#                             leaves it, else build/host)
 #   SPOOLSTEP_JOBS            parallel jobs (default: 2)
 #   SPOOLSTEP_BUILD_LOCK      lock file every build/test command runs under
 #                             (default: /tmp/spoolstep-build.lock; the script
@@ -15,7 +17,9 @@
 set -euo pipefail
 
 repo="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
-host_dir="${SPOOLSTEP_HOST_BUILD_DIR:-${repo}/build/host}"
+default_host_dir="${repo}/build/host"
+[[ -f "${repo}/build/host-debug/CMakeCache.txt" ]] && default_host_dir="${repo}/build/host-debug"
+host_dir="${SPOOLSTEP_HOST_BUILD_DIR:-${default_host_dir}}"
 jobs="${SPOOLSTEP_JOBS:-2}"
 lock="${SPOOLSTEP_BUILD_LOCK:-/tmp/spoolstep-build.lock}"
 

@@ -1,8 +1,9 @@
 // Records golden vectors for the demo machine on the host: a scripted
 // operator and a deliberately crude plant (invented numbers, not a model of
 // any real press) drive the host core through a full press cycle, then a
-// second cycle with the guard opened, an emergency stop, reset and manual
-// jogging home, and a low-oil trip with reset. The inputs of every scan and
+// second cycle with the guard opened (the chain holds; two hands resume it),
+// an emergency stop, reset and manual jogging home, and a low-oil trip with
+// reset. The inputs of every scan and
 // a digest of every scan's result are written as a C++ header that the QEMU
 // replay program compiles in; golden_outputs.txt holds every scan in full.
 //
@@ -275,9 +276,15 @@ void run_scenario(Script& s) {
   s.until(step_is(s.step("fast_approach")), 5000, "cycle 2 fast approach");
   s.run_ms(60);
   s.set(p.guard_door_closed, false);
+  s.until(state_is(MachineState::kAutoHeld), 50, "chain held by the open guard");
   s.run_ms(300);
-  if (!s.diag().functions[p.press].blocked) fail(1, "guard open did not block the press");
   s.set(p.guard_door_closed, true);
+  s.run_ms(200);
+  if (s.diag().state != MachineState::kAutoHeld) fail(1, "closing the guard restarted the chain by itself");
+  s.hands(false);  // a new cycle start (two hands again) resumes the held step
+  s.run_ms(100);
+  s.hands(true);
+  s.until(state_is(MachineState::kAutoCycle), 200, "cycle 2 resumed");
   s.until(step_is(s.step("press_force")), 5000, "cycle 2 press force");
   s.run_ms(50);
   s.set(p.estop_ok, false);
