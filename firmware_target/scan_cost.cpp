@@ -86,6 +86,27 @@ struct Stats {
 
 std::uint32_t g_overhead = 0;
 
+// Stack depth below main's frame: the words under the stack pointer are
+// painted before a run, and the deepest overwritten word after it shows how
+// far the scans reached (the timing wrapper adds a few words).
+constexpr std::uint32_t kPaintWords = 2048;  // 8 KiB, far above the heap of this image
+constexpr std::uint32_t kPaintGapWords = 16;  // room for a memset frame under the painting call
+constexpr std::uint32_t kPaint = 0x5A5AA5A5u;
+std::uint32_t* g_paint_top = nullptr;
+
+__attribute__((noinline)) void paint_stack() {
+  std::uint32_t* sp = nullptr;
+  __asm volatile("mov %0, sp" : "=r"(sp));
+  g_paint_top = sp - kPaintGapWords;
+  for (std::uint32_t* p = g_paint_top - kPaintWords; p < g_paint_top; ++p) *p = kPaint;
+}
+
+std::uint32_t stack_bytes_used() {
+  const std::uint32_t* p = g_paint_top - kPaintWords;
+  while (p < g_paint_top && *p == kPaint) ++p;
+  return static_cast<std::uint32_t>(g_paint_top - p) * 4u + kPaintGapWords * 4u;
+}
+
 inline std::uint32_t timed_scan(const InputImage& in, std::uint32_t now_us, OutputImage& out) {
   const std::uint32_t t0 = systick_now();
   g_controller.scan(in, now_us, out);
@@ -124,6 +145,7 @@ int main() {
   // Demo machine over the golden run.
   if (!g_controller.init(spoolstep::demo::kPressCell).is_ok()) return 2;
   Stats demo;
+  paint_stack();
   fw::replay(
       spoolstep::golden::kFrames, sizeof spoolstep::golden::kFrames / sizeof spoolstep::golden::kFrames[0],
       spoolstep::golden::kStartUs,
@@ -131,7 +153,9 @@ int main() {
         demo.add(timed_scan(in, now_us, out), demo.scans);
       },
       [](std::uint32_t, std::uint32_t, const OutputImage&) {});
+  const std::uint32_t demo_stack = stack_bytes_used();
   report("demo machine (golden run)", demo, per_kilo);
+  std::printf("stack demo machine: at most %lu bytes below main's frame\n", static_cast<unsigned long>(demo_stack));
 
   // Full-capacity machine, chain cycling.
   fw::build_full_capacity_machine(g_full);
@@ -142,12 +166,16 @@ int main() {
   Stats full;
   InputImage in{};
   OutputImage out{};
+  paint_stack();
   for (std::uint32_t scan = 0; scan < 4000; ++scan) {
     fw::full_capacity_inputs(scan, in);
     full.add(timed_scan(in, 1000u * (scan + 1), out), scan);
   }
   const bool cycled = g_controller.diagnostics().completed_cycles >= 1 && g_controller.diagnostics().fault_count == 0;
+  const std::uint32_t full_stack = stack_bytes_used();
   report("full-capacity machine", full, per_kilo);
+  std::printf("stack full-capacity machine: at most %lu bytes below main's frame\n",
+              static_cast<unsigned long>(full_stack));
   std::printf("scan cost: full-capacity chain %s\n", cycled ? "cycled without faults" : "DID NOT CYCLE");
   return cycled ? 0 : 1;
 }
