@@ -392,13 +392,18 @@ std::string render_header(const ExportOptions& options, const MachineConfig& c) 
       "#pragma once\n"
       "#include \"spoolstep/core/config.hpp\"\n\n"
       "namespace {} {{\n\n"
-      "/// The configuration of machine \"{}\", field by field as the host loader built it.\n"
-      "inline constexpr spoolstep::core::MachineConfig {} = [] {{\n"
+      "/// Builds the configuration of machine \"{}\" at compile time.\n"
+      "constexpr spoolstep::core::MachineConfig build_{}() {{\n"
       "  using namespace spoolstep::core;\n"
       "  MachineConfig c{{}};\n",
       file_name, machine_name, options.name_space, machine_name, options.symbol);
   out += emit_body(c);
-  out += fmt::format("  return c;\n}}();\n\n}}  // namespace {}\n", options.name_space);
+  out += fmt::format(
+      "  return c;\n}}\n\n"
+      "/// The configuration of machine \"{}\", field by field as the host loader built it.\n"
+      "inline constexpr spoolstep::core::MachineConfig {} = build_{}();\n\n"
+      "}}  // namespace {}\n",
+      machine_name, options.symbol, options.symbol, options.name_space);
   return out;
 }
 
