@@ -30,21 +30,27 @@ void SysTick_Handler(void) __attribute__((weak, alias("Default_Handler")));
  * CPACR at 0xE000ED88; CP10/CP11 access fields are bits 20-23). */
 #define SPOOLSTEP_CPACR (*(volatile uint32_t*)0xE000ED88u)
 
+/* One vector: the initial stack pointer or a handler. */
+typedef union {
+  uint32_t* stack_top;
+  void (*handler)(void);
+} spoolstep_vector;
+
 /* 16 system exception entries; mps2-an386 interrupts are not used. */
-__attribute__((section(".vectors"), used)) void (*const spoolstep_vectors[16])(void) = {
-    (void (*)(void))(&__StackTop),
-    Reset_Handler,
-    Default_Handler,    /* NMI */
-    HardFault_Handler,  /* HardFault */
-    Default_Handler,    /* MemManage */
-    Default_Handler,    /* BusFault */
-    Default_Handler,    /* UsageFault */
-    0, 0, 0, 0,         /* reserved */
-    Default_Handler,    /* SVCall */
-    Default_Handler,    /* DebugMonitor */
-    0,                  /* reserved */
-    Default_Handler,    /* PendSV */
-    SysTick_Handler,    /* SysTick */
+__attribute__((section(".vectors"), used)) const spoolstep_vector spoolstep_vectors[16] = {
+    {.stack_top = &__StackTop},
+    {.handler = Reset_Handler},
+    {.handler = Default_Handler},    /* NMI */
+    {.handler = HardFault_Handler},  /* HardFault */
+    {.handler = Default_Handler},    /* MemManage */
+    {.handler = Default_Handler},    /* BusFault */
+    {.handler = Default_Handler},    /* UsageFault */
+    {0}, {0}, {0}, {0},              /* reserved */
+    {.handler = Default_Handler},    /* SVCall */
+    {.handler = Default_Handler},    /* DebugMonitor */
+    {0},                             /* reserved */
+    {.handler = Default_Handler},    /* PendSV */
+    {.handler = SysTick_Handler},    /* SysTick */
 };
 
 /* Spins: a faulting image never exits, so every QEMU test has a TIMEOUT. */
@@ -69,9 +75,9 @@ extern spoolstep_init_fn __init_array_end[];
 #endif
 
 /* Must not use floating point before the FPU is enabled: with the hard-float
- * ABI the first FP instruction would fault. Kept free of FP code by being
- * plain integer copies; `naked` is avoided so the compiler stays in charge of
- * the frame. */
+ * ABI the first FP instruction would fault. Only integer copies follow (GCC
+ * may turn them into calls to newlib's memcpy/memset, which use no FP
+ * registers); `naked` is avoided so the compiler stays in charge of the frame. */
 __attribute__((noreturn)) void Reset_Handler(void) {
   SPOOLSTEP_CPACR |= (0xFu << 20);  /* CP10 and CP11: full access */
   __asm volatile("dsb\n\tisb" ::: "memory");
