@@ -106,7 +106,9 @@ inline bool same_inputs(const GoldenFrame& a, const GoldenFrame& b) {
          a.analog_healthy == b.analog_healthy && a.commands == b.commands && a.analog_bits == b.analog_bits;
 }
 
-/// FNV-1a, 32 bit (the published FNV offset basis and prime).
+/// FNV-1a, 32 bit: offset basis 2166136261 and prime 16777619 (from memory of
+/// the FNV description by Fowler, Noll and Vo; any fixed hash would do, both
+/// sides only need to agree).
 class Fnv1a {
  public:
   void byte(std::uint8_t b) {
