@@ -24,27 +24,30 @@ struct StubOutputs {
 
 volatile StubInputs g_inputs{};
 volatile StubOutputs g_outputs{};
+// SysTick interrupts every kTickUs; a scan is due once `period` has passed.
+constexpr std::uint32_t kTickUs = 1000;
 volatile std::uint32_t g_now_us = 0;
-volatile std::uint32_t g_ticks = 0;
 std::uint32_t g_period_us = 1000;
-std::uint32_t g_seen_ticks = 0;
+std::uint32_t g_last_scan_us = 0;
 
 }  // namespace
 
 void start_scan_clock(std::uint32_t period_us) {
-  g_period_us = period_us;
+  // Whole ticks, at least one: the core measures the real interval anyway.
+  g_period_us = period_us < kTickUs ? kTickUs : period_us - period_us % kTickUs;
   cm::syst_csr() = 0;
-  cm::syst_rvr() = (cm::kMps2SysclkHz / 1000000u) * period_us - 1u;
+  cm::syst_rvr() = (cm::kMps2SysclkHz / 1000000u) * kTickUs - 1u;
   cm::syst_cvr() = 0;
+  g_last_scan_us = g_now_us;
   cm::syst_csr() = cm::kSysTickEnable | cm::kSysTickInterrupt | cm::kSysTickProcessorClock;
 }
 
 std::uint32_t wait_for_scan_tick() {
-  while (g_ticks == g_seen_ticks) {
+  while (g_now_us - g_last_scan_us < g_period_us) {
     __asm volatile("wfi");
   }
-  g_seen_ticks = g_ticks;
-  return g_now_us;
+  g_last_scan_us = g_now_us;
+  return g_last_scan_us;
 }
 
 void read_inputs(core::InputImage& in) {
@@ -70,6 +73,5 @@ void signal_config_error() { g_outputs.config_error = 1u; }
 }  // namespace spoolstep::board
 
 extern "C" void SysTick_Handler() {
-  spoolstep::board::g_now_us = spoolstep::board::g_now_us + spoolstep::board::g_period_us;
-  spoolstep::board::g_ticks = spoolstep::board::g_ticks + 1u;
+  spoolstep::board::g_now_us = spoolstep::board::g_now_us + spoolstep::board::kTickUs;
 }

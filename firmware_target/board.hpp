@@ -12,11 +12,12 @@
 
 namespace spoolstep::board {
 
-/// Starts the SysTick scan clock at `period_us` (1 us resolution).
+/// Starts the scan clock: SysTick ticks every millisecond, a scan is due
+/// every `period_us` (rounded down to whole milliseconds, at least one).
 void start_scan_clock(std::uint32_t period_us);
 
-/// Sleeps until the next scan tick; returns the monotonic time in us (wraps
-/// modulo 2^32, as the core expects).
+/// Sleeps until the next scan is due; returns the monotonic time in us
+/// (wraps modulo 2^32, as the core expects).
 std::uint32_t wait_for_scan_tick();
 
 /// Fills `in` from the stub input block.
