@@ -242,7 +242,7 @@ class Reader {
   void expectation(const json& e, const std::string& path, const std::vector<std::string>& signals,
                    std::vector<Expectation>& out) {
     if (!object(e, path, {"name", "kind", "step", "before_s", "state", "at_s", "signal", "min", "max",
-                          "from_s", "to_s", "tolerance", "while_off", "within_ms"}))
+                          "from_s", "to_s", "tolerance", "while_off", "grace_ms", "within_ms"}))
       return;
     const auto kind = text(e, path, "kind", true);
     if (!kind) return;
@@ -292,6 +292,7 @@ class Reader {
       x.kind = Expectation::Kind::kStillWhileOff;
       signal();
       x.tolerance = number(e, path, "tolerance", 0.0, 1e12, true).value_or(0.0);
+      x.grace_ms = number(e, path, "grace_ms", 0.0, 1e6, false).value_or(0.0);
       if (const auto s = text(e, path, "while_off", true)) {
         if (const auto i = digital(*s, path + "/while_off", false)) x.input = *i;
       }

@@ -38,9 +38,19 @@ void CsvTraceWriter::begin(const std::vector<Signal>& signals) {
 }
 
 void CsvTraceWriter::row(double t_s, const std::vector<double>& values) {
-  out_ << fmt::format("{:.6f}", t_s);
-  for (double v : values) out_ << ',' << number(v);
-  out_ << '\n';
+  // One buffer per row: formatting straight into the stream value by value
+  // costs more than the simulation itself.
+  fmt::memory_buffer line;
+  fmt::format_to(std::back_inserter(line), "{:.6f}", t_s);
+  for (double v : values) {
+    if (v == 0.0) {
+      line.append(std::string_view(",0"));  // also folds -0
+    } else {
+      fmt::format_to(std::back_inserter(line), ",{:.9g}", v);
+    }
+  }
+  line.push_back('\n');
+  out_.write(line.data(), static_cast<std::streamsize>(line.size()));
 }
 
 // ------------------------------------------------------------------ VCD --
@@ -161,7 +171,12 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
         }
         break;
       case Expectation::Kind::kStillWhileOff:
-        if (v[static_cast<std::size_t>(l.input_column)] == 0.0) {
+        if (v[static_cast<std::size_t>(l.input_column)] != 0.0) {
+          l.off_since = -1.0;
+        } else if (l.off_since < 0.0) {
+          l.off_since = t_s;
+        }
+        if (l.off_since >= 0.0 && (t_s - l.off_since) * 1e3 + eps >= x.grace_ms) {
           const double y = std::fabs(v[static_cast<std::size_t>(l.column)]);
           if (y > l.observed_max) l.observed_max = y;
           if (y > x.tolerance && !l.failed) { l.failed = true; l.fail_time = t_s; l.last_value = y; }
@@ -212,8 +227,8 @@ void ExpectationChecker::end(double t_end_s) {
       case Expectation::Kind::kStillWhileOff:
         r.kind = "still_while_off";
         r.passed = !l.failed;
-        r.detail = fmt::format("largest |{}| while {} was off: {} (tolerance {}){}", x.signal,
-                               machine_file::name_view(machine_.digital_inputs[x.input]),
+        r.detail = fmt::format("largest |{}| while {} was off (after {} ms): {} (tolerance {}){}", x.signal,
+                               machine_file::name_view(machine_.digital_inputs[x.input]), number(x.grace_ms),
                                l.observed_max < 0 ? "0 (never off)" : number(l.observed_max), number(x.tolerance),
                                l.failed ? fmt::format(", first exceeded at {:.3f} s", l.fail_time) : "");
         break;

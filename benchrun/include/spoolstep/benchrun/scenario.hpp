@@ -44,7 +44,7 @@ struct Expectation {
     kStepReached,  ///< step reached before before_s
     kStateAt,      ///< machine state equals `state` at at_s
     kStaysWithin,  ///< signal within [min, max] over [from_s, to_s]
-    kStillWhileOff,///< |signal| <= tolerance whenever digital input `input` is false
+    kStillWhileOff,///< |signal| <= tolerance whenever digital input `input` has been false for grace_ms
     kSafeWithin,   ///< every valve output off within within_ms after at_s
     kFinalWithin,  ///< signal within [min, max] at the end
   };
@@ -62,6 +62,7 @@ struct Expectation {
   double from_s = 0.0;
   double to_s = 1e300;
   double within_ms = 0.0;
+  double grace_ms = 0.0;  ///< still_while_off: stopping allowance after the input goes off
   std::string json_path;
 };
 

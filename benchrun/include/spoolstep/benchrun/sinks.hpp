@@ -71,6 +71,7 @@ class ExpectationChecker final : public TraceSink {
     double observed_max = -1e300;
     double first_time = -1.0;
     double fail_time = 0.0;
+    double off_since = -1.0;  // still_while_off: when the input last went off
     double last_value = 0.0;
   };
   const Scenario& scenario_;

@@ -1,0 +1,121 @@
+#include "spoolstep/benchrun/plant_adapter.hpp"
+
+#include <fmt/format.h>
+
+namespace spoolstep::benchrun {
+namespace {
+
+using hostsim::FaultKind;
+
+struct FaultName {
+  const char* name;
+  FaultKind kind;
+  const char* target_kind;  // what the target names
+};
+
+const FaultName kFaultNames[] = {
+    {"stuck_spool", FaultKind::kStuckSpool, "function"},
+    {"coil_open", FaultKind::kCoilOpen, "output"},
+    {"coil_short", FaultKind::kCoilShort, "output"},
+    {"sensor_wire_break", FaultKind::kSensorWireBreak, "input"},
+    {"sensor_stuck", FaultKind::kSensorStuck, "input"},
+    {"sensor_drift", FaultKind::kSensorDrift, "input"},
+    {"sensor_fail_low", FaultKind::kSensorFailLow, "input"},
+    {"sensor_fail_high", FaultKind::kSensorFailHigh, "input"},
+    {"seal_leak", FaultKind::kSealLeak, "cylinder"},
+    {"pump_failure", FaultKind::kPumpFailure, "none"},
+    {"load_change", FaultKind::kLoadChange, "cylinder"},
+};
+
+bool ends_with(const std::string& name, const char* suffix) {
+  const std::string s(suffix);
+  return name.size() >= s.size() && name.compare(name.size() - s.size(), s.size(), s) == 0;
+}
+
+SignalGroup group_of(const std::string& name) {
+  if (ends_with(name, ".p_bar")) return SignalGroup::kPressure;
+  if (ends_with(name, ".x_mm")) return SignalGroup::kPosition;
+  if (ends_with(name, ".v_mm_s")) return SignalGroup::kVelocity;
+  if (ends_with(name, ".spool")) return SignalGroup::kSpool;
+  return SignalGroup::kOther;
+}
+
+std::string unit_of(const std::string& name) {
+  if (ends_with(name, ".p_bar")) return "bar";
+  if (ends_with(name, ".x_mm")) return "mm";
+  if (ends_with(name, ".v_mm_s")) return "mm/s";
+  if (ends_with(name, ".q_l_min")) return "L/min";
+  return "";
+}
+
+}  // namespace
+
+PlantAdapter::PlantAdapter(hostsim::Plant& plant) : plant_(plant) {
+  const hostsim::PlantSnapshot snap = plant_.snapshot();
+  for (const std::string& n : *snap.names) {
+    signals_.push_back(Signal{"plant." + n, unit_of(n), SignalKind::kAnalog, group_of(n)});
+  }
+}
+
+void PlantAdapter::do_sample(std::vector<double>& values) const {
+  const hostsim::PlantSnapshot snap = plant_.snapshot();
+  values.insert(values.end(), snap.values.begin(), snap.values.end());
+}
+
+void PlantAdapter::do_advance(double dt_s) {
+  if (!plant_.advance(dt_s) && !integrator_error_) {
+    integrator_error_ = fmt::format("the plant integrator's step size collapsed at {:.6f} s", plant_.time_s());
+  }
+}
+
+std::optional<std::string> PlantAdapter::do_inject(const nlohmann::json& fault) {
+  const std::string kind = fault.value("kind", "");
+  for (const FaultName& f : kFaultNames) {
+    if (kind != f.name) continue;
+    const hostsim::PlantFault pf{f.kind, fault.value("target", ""), fault.value("value", 0.0)};
+    if (!plant_.inject(pf)) return fmt::format("the plant has no {} named '{}'", f.target_kind, pf.target);
+    return std::nullopt;
+  }
+  return fmt::format("unknown plant fault kind '{}'", kind);
+}
+
+// Which inputs the plant drives: an input the plant writes has the same
+// value whatever it held before; one it leaves alone keeps the probe value.
+PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& machine,
+                       const std::vector<Signal>& signals) {
+  PlantFacts facts;
+  core::InputImage low{}, high{};
+  for (auto& d : high.digital) d = true;
+  for (auto& a : low.analog) a.value = -12345.0f;
+  for (auto& a : high.analog) a.value = 12345.0f;
+  plant.read_inputs(low);
+  plant.read_inputs(high);
+  facts.plant_digital.resize(machine.digital_input_count);
+  facts.plant_analog.resize(machine.analog_input_count);
+  for (std::size_t i = 0; i < facts.plant_digital.size(); ++i) facts.plant_digital[i] = low.digital[i] == high.digital[i];
+  for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = low.analog[i].value == high.analog[i].value;
+  for (const auto& s : signals) facts.signal_names.push_back(s.name);
+  facts.check_fault = [](const nlohmann::json& f) -> std::optional<std::string> {
+    if (!f.is_object()) return "a plant fault is an object: {\"kind\": ..., \"target\": ..., \"value\": ...}";
+    for (const auto& [key, value] : f.items()) {
+      if (key != "kind" && key != "target" && key != "value")
+        return fmt::format("unknown field '{}' in a plant fault (fields: kind, target, value)", key);
+    }
+    if (!f.contains("kind") || !f["kind"].is_string()) return "a plant fault needs \"kind\" (a string)";
+    const std::string kind = f["kind"].get<std::string>();
+    const FaultName* found = nullptr;
+    for (const FaultName& n : kFaultNames) found = kind == n.name ? &n : found;
+    if (found == nullptr) {
+      std::string all;
+      for (const FaultName& n : kFaultNames) all += (all.empty() ? "" : ", ") + std::string(n.name);
+      return fmt::format("unknown plant fault kind '{}' (kinds: {})", kind, all);
+    }
+    if (std::string(found->target_kind) != "none" && (!f.contains("target") || !f["target"].is_string()))
+      return fmt::format("a {} fault needs \"target\": the {} name", kind, found->target_kind);
+    if (f.contains("value") && !f["value"].is_number()) return "\"value\" must be a number";
+    return std::nullopt;
+  };
+  return facts;
+}
+
+}  // namespace spoolstep::benchrun

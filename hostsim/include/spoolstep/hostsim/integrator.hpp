@@ -1,0 +1,58 @@
+#pragma once
+/// Stiff integrators for the network equations. Both advance the state from
+/// t to t_end with local error control and call `on_step` after every
+/// accepted internal step (where limit and pressure switches are sampled).
+#include <cstddef>
+#include <functional>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include "spoolstep/hostsim/network.hpp"
+
+namespace spoolstep::hostsim {
+
+enum class SolverMethod {
+  /// Boost.Odeint rosenbrock4 (4th order Rosenbrock, Shampine's coefficients)
+  /// with its step-size controller; finite-difference Jacobian every step.
+  kOdeintRosenbrock4,
+  /// Purpose-written ROS2 (2nd order, L-stable Rosenbrock-W method of Verwer,
+  /// Spee, Blom and Hundsdorfer 1999), which keeps its order with an outdated
+  /// Jacobian: the Jacobian and its LU factors are reused while the step size
+  /// stays the same and no step is rejected.
+  kRos2,
+};
+
+struct SolverSettings {
+  SolverMethod method = SolverMethod::kOdeintRosenbrock4;
+  double rtol = 1e-5;
+  double atol = 1e-5;  ///< in state units: bar, mm, mm/s, stroke fraction, cm^3
+};
+
+struct SolverStats {
+  std::size_t accepted = 0;
+  std::size_t rejected = 0;
+  std::size_t rhs_calls = 0;
+  std::size_t jacobians = 0;
+  std::size_t factorisations = 0;
+};
+
+class Integrator {
+ public:
+  virtual ~Integrator() = default;
+  /// Advances y (state units) from t to t_end under constant inputs.
+  /// Returns false if the step size collapsed (y then holds the last good state).
+  virtual bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+                       const std::function<void(double, const std::vector<double>&)>& on_step) = 0;
+  virtual const SolverStats& stats() const = 0;
+  /// Forget the step-size history (after a jump in the state).
+  virtual void restart() = 0;
+  /// The inputs changed: a reused Jacobian may no longer fit.
+  virtual void inputs_changed() = 0;
+};
+
+/// Creates the integrator for a network; `net` and `layout` must outlive it.
+std::unique_ptr<Integrator> make_integrator(const Network& net, const StateLayout& layout,
+                                            const SolverSettings& settings);
+
+}  // namespace spoolstep::hostsim

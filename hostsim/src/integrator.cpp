@@ -1,0 +1,304 @@
+#include "spoolstep/hostsim/integrator.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <utility>
+#include <cstdlib>
+
+#include <boost/numeric/odeint/stepper/rosenbrock4.hpp>
+#include <boost/numeric/odeint/stepper/rosenbrock4_controller.hpp>
+
+namespace spoolstep::hostsim {
+namespace {
+
+namespace odeint = boost::numeric::odeint;
+using UVec = boost::numeric::ublas::vector<double>;
+using UMat = boost::numeric::ublas::matrix<double>;
+
+constexpr double kMinStep = 1e-12;    // s; below this the step size has collapsed
+constexpr double kFirstStep = 1e-5;   // s; first trial step after a restart
+
+bool time_dependent(const Network& net) {
+  for (const Cylinder& c : net.cylinders) {
+    if (!c.force_profile.empty()) return true;
+  }
+  return false;
+}
+
+/// Shared part: the right-hand side and a finite-difference Jacobian over
+/// the dynamic states (the accumulators feed nothing back, so their columns
+/// are zero).
+class Evaluator {
+ public:
+  Evaluator(const Network& net, const StateLayout& layout)
+      : rhs_(net, layout), n_(layout.size), n_dyn_(layout.pumped), f0_(n_), f1_(n_), x_(n_),
+        time_dependent_(time_dependent(net)) {}
+
+  void rhs(const NetworkInputs& in, double t, const double* y, double* dydt) {
+    ++stats.rhs_calls;
+    rhs_(in, t, y, dydt);
+  }
+
+  /// J(i, j) stored through set(i, j, value); f0 = f(t, y) on return.
+  template <class Set>
+  void jacobian(const NetworkInputs& in, double t, const double* y, Set&& set, double* dfdt) {
+    ++stats.jacobians;
+    std::copy(y, y + n_, x_.begin());
+    rhs(in, t, x_.data(), f0_.data());
+    for (std::size_t j = 0; j < n_; ++j) {
+      if (j >= n_dyn_) {
+        for (std::size_t i = 0; i < n_; ++i) set(i, j, 0.0);
+        continue;
+      }
+      const double xj = x_[j];
+      const double h = 1.5e-8 * std::max(std::fabs(xj), 1.0);
+      x_[j] = xj + h;
+      const double hh = x_[j] - xj;
+      rhs(in, t, x_.data(), f1_.data());
+      x_[j] = xj;
+      for (std::size_t i = 0; i < n_; ++i) set(i, j, (f1_[i] - f0_[i]) / hh);
+    }
+    if (dfdt != nullptr) {
+      if (time_dependent_) {
+        const double ht = 1e-7;
+        rhs(in, t + ht, x_.data(), f1_.data());
+        for (std::size_t i = 0; i < n_; ++i) dfdt[i] = (f1_[i] - f0_[i]) / ht;
+      } else {
+        std::fill(dfdt, dfdt + n_, 0.0);
+      }
+    }
+  }
+  const std::vector<double>& f0() const { return f0_; }
+  std::size_t size() const { return n_; }
+
+  SolverStats stats;
+
+ private:
+  NetworkRhs rhs_;
+  std::size_t n_;
+  std::size_t n_dyn_;
+  std::vector<double> f0_, f1_, x_;
+  bool time_dependent_;
+};
+
+// ---------------------------------------------------------------------------
+class OdeintRosenbrock4 final : public Integrator {
+ public:
+  OdeintRosenbrock4(const Network& net, const StateLayout& layout, const SolverSettings& s)
+      : eval_(net, layout), controller_(s.atol, s.rtol), x_(layout.size), dfdt_(layout.size) {}
+
+  bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+               const std::function<void(double, const std::vector<double>&)>& on_step) override {
+    in_ = &in;
+    std::copy(y.begin(), y.end(), x_.begin());
+    auto system = std::make_pair(Rhs{this}, Jac{this});
+    double h = h_ > 0.0 ? h_ : kFirstStep;
+    while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
+      const double remaining = t_end - t;
+      const bool last = h >= remaining;
+      double dt = last ? remaining : h;
+      const auto result = controller_.try_step(system, x_, t, dt);
+      if (result == odeint::success) {
+        ++eval_.stats.accepted;
+        if (last) {
+          t = t_end;
+          h = std::max(h, dt);
+        } else {
+          h = dt;
+        }
+        std::copy(x_.begin(), x_.end(), y.begin());
+        if (on_step) on_step(t, y);
+      } else {
+        ++eval_.stats.rejected;
+        h = dt;
+        if (h < kMinStep) {
+          h_ = 0.0;
+          return false;
+        }
+      }
+    }
+    h_ = h;
+    std::copy(x_.begin(), x_.end(), y.begin());
+    return true;
+  }
+  const SolverStats& stats() const override { return eval_.stats; }
+  void restart() override { h_ = 0.0; }
+  void inputs_changed() override {}  // a fresh Jacobian every step anyway
+
+ private:
+  struct Rhs {
+    OdeintRosenbrock4* self;
+    void operator()(const UVec& x, UVec& dxdt, double t) const {
+      self->eval_.rhs(*self->in_, t, &x(0), &dxdt(0));
+    }
+  };
+  struct Jac {
+    OdeintRosenbrock4* self;
+    void operator()(const UVec& x, UMat& j, double t, UVec& dfdt) const {
+      self->eval_.jacobian(*self->in_, t, &x(0),
+                           [&j](std::size_t r, std::size_t c, double v) { j(r, c) = v; }, &dfdt(0));
+    }
+  };
+
+  Evaluator eval_;
+  odeint::rosenbrock4_controller<odeint::rosenbrock4<double>> controller_;
+  UVec x_;
+  UVec dfdt_;
+  const NetworkInputs* in_ = nullptr;
+  double h_ = 0.0;
+};
+
+// ---------------------------------------------------------------------------
+// ROS2: W k1 = f(y); W k2 = f(y + h k1) - 2 k1; y1 = y + h (3/2 k1 + 1/2 k2),
+// W = I - gamma h J, gamma = 1 + 1/sqrt(2). Embedded first order solution
+// y + h k1 for the error estimate. Second order for any W (checked by
+// expansion: y1 = y + h f + h^2/2 f' f whatever J is), so J and the LU of W
+// can be reused.
+class Ros2 final : public Integrator {
+ public:
+  Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
+      : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
+        lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), ynew_(n_) {}
+
+  bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+               const std::function<void(double, const std::vector<double>&)>& on_step) override {
+    double h = h_ > 0.0 ? h_ : kFirstStep;
+    while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
+      const double remaining = t_end - t;
+      const bool last = h >= remaining * (1.0 - 1e-9);
+      const double dt = last ? remaining : h;
+      if (jac_age_ < 0) {
+        eval_.jacobian(in, t, y.data(), [this](std::size_t r, std::size_t c, double v) { jac_[r * n_ + c] = v; },
+                       nullptr);
+        jac_age_ = 0;
+        h_lu_ = 0.0;
+      }
+      if (!(dt >= 0.9 * h_lu_ && dt <= 1.1 * h_lu_)) factor(dt);
+      const double hs = dt;
+      eval_.rhs(in, t, y.data(), f_.data());
+      solve(f_, k1_);
+      for (std::size_t i = 0; i < n_; ++i) y1_[i] = y[i] + hs * k1_[i];
+      eval_.rhs(in, t + hs, y1_.data(), f_.data());
+      for (std::size_t i = 0; i < n_; ++i) f_[i] -= 2.0 * k1_[i];
+      solve(f_, k2_);
+      double err = 0.0;
+      for (std::size_t i = 0; i < n_; ++i) {
+        ynew_[i] = y[i] + hs * (1.5 * k1_[i] + 0.5 * k2_[i]);
+        const double e = hs * 0.5 * (k1_[i] + k2_[i]);
+        const double sc = atol_ + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
+        err = std::max(err, std::fabs(e) / sc);
+      }
+      if (err <= 1.0 && std::isfinite(err)) {
+        ++eval_.stats.accepted;
+        std::copy(ynew_.begin(), ynew_.end(), y.begin());
+        t = last ? t_end : t + hs;
+        if (on_step) on_step(t, y);
+        ++jac_age_;
+        if (jac_age_ > kMaxJacobianAge) jac_age_ = -1;
+        double fac = err > 0.0 ? 0.9 / std::sqrt(err) : 2.0;
+        fac = std::min(2.0, std::max(1.0, fac));
+        // Small increases are not worth a new factorisation.
+        const double proposal = fac < 1.2 ? hs : hs * fac;
+        h = last ? std::max(h, proposal) : proposal;
+      } else {
+        ++eval_.stats.rejected;
+        const double fac = std::isfinite(err) ? std::max(0.2, 0.9 / std::sqrt(err)) : 0.2;
+        h = hs * fac;
+        if (jac_age_ > 0) jac_age_ = -1;  // a fresh Jacobian first
+        if (h < kMinStep) {
+          h_ = 0.0;
+          return false;
+        }
+      }
+    }
+    h_ = h;
+    return true;
+  }
+  const SolverStats& stats() const override { return eval_.stats; }
+  void restart() override {
+    h_ = 0.0;
+    jac_age_ = -1;
+  }
+  // A stale Jacobian can hide errors from the estimate (a spool whose rate
+  // saturates after a command step would crawl), so inputs changes refresh it.
+  void inputs_changed() override { jac_age_ = -1; }
+
+ private:
+  int kMaxJacobianAge = std::getenv("JACAGE") ? std::atoi(std::getenv("JACAGE")) : 10;
+  static constexpr double kGamma = 1.0 + 0.70710678118654752440;
+
+  void factor(double h) {
+    ++eval_.stats.factorisations;
+    h_lu_ = h;
+    for (std::size_t i = 0; i < n_ * n_; ++i) lu_[i] = -kGamma * h * jac_[i];
+    for (std::size_t i = 0; i < n_; ++i) lu_[i * n_ + i] += 1.0;
+    // Doolittle LU with partial pivoting, in place.
+    for (std::size_t k = 0; k < n_; ++k) {
+      std::size_t p = k;
+      double best = std::fabs(lu_[k * n_ + k]);
+      for (std::size_t i = k + 1; i < n_; ++i) {
+        const double v = std::fabs(lu_[i * n_ + k]);
+        if (v > best) {
+          best = v;
+          p = i;
+        }
+      }
+      piv_[k] = p;
+      if (p != k) {
+        for (std::size_t j = 0; j < n_; ++j) std::swap(lu_[k * n_ + j], lu_[p * n_ + j]);
+      }
+      const double d = lu_[k * n_ + k];
+      if (d == 0.0) continue;
+      for (std::size_t i = k + 1; i < n_; ++i) {
+        double& lik = lu_[i * n_ + k];
+        if (lik == 0.0) continue;
+        lik /= d;
+        const double* rk = &lu_[k * n_];
+        double* ri = &lu_[i * n_];
+        for (std::size_t j = k + 1; j < n_; ++j) ri[j] -= lik * rk[j];
+      }
+    }
+  }
+
+  void solve(const std::vector<double>& b, std::vector<double>& x) const {
+    x = b;
+    for (std::size_t k = 0; k < n_; ++k) std::swap(x[k], x[piv_[k]]);
+    for (std::size_t i = 1; i < n_; ++i) {
+      double s = x[i];
+      const double* ri = &lu_[i * n_];
+      for (std::size_t j = 0; j < i; ++j) s -= ri[j] * x[j];
+      x[i] = s;
+    }
+    for (std::size_t i = n_; i-- > 0;) {
+      double s = x[i];
+      const double* ri = &lu_[i * n_];
+      for (std::size_t j = i + 1; j < n_; ++j) s -= ri[j] * x[j];
+      x[i] = s / ri[i];
+    }
+  }
+
+  Evaluator eval_;
+  std::size_t n_;
+  double rtol_, atol_;
+  std::vector<double> jac_, lu_;
+  std::vector<std::size_t> piv_;
+  std::vector<double> k1_, k2_, y1_, f_, ynew_;
+  double h_ = 0.0;
+  double h_lu_ = 0.0;
+  int jac_age_ = -1;
+};
+
+}  // namespace
+
+std::unique_ptr<Integrator> make_integrator(const Network& net, const StateLayout& layout,
+                                            const SolverSettings& settings) {
+  switch (settings.method) {
+    case SolverMethod::kRos2:
+      return std::make_unique<Ros2>(net, layout, settings);
+    case SolverMethod::kOdeintRosenbrock4:
+      break;
+  }
+  return std::make_unique<OdeintRosenbrock4>(net, layout, settings);
+}
+
+}  // namespace spoolstep::hostsim

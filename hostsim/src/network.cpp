@@ -1,0 +1,294 @@
+// The network equations. tools/ref/plant_ref.py implements the same
+// equations independently (numpy/scipy); keep the two in step.
+#include "spoolstep/hostsim/network.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+namespace spoolstep::hostsim {
+namespace {
+
+// Standard gravity, defined by the 3rd CGPM (1901) (from memory).
+constexpr double kStandardGravity = 9.80665;
+
+double clamp01(double u) { return u < 0.0 ? 0.0 : (u > 1.0 ? 1.0 : u); }
+
+// C1 ramp from 0 to 1 over u in [0, 1] (our own smoothing choice).
+double smoothstep(double u) {
+  if (u <= 0.0) return 0.0;
+  if (u >= 1.0) return 1.0;
+  return u * u * (3.0 - 2.0 * u);
+}
+
+// max(d, 0) with a C1 quadratic corner of width w centred on d = 0: exact
+// line for d >= w/2, zero for d <= -w/2.
+double soft_positive(double d, double w) {
+  if (w <= 0.0) return d > 0.0 ? d : 0.0;
+  if (d >= 0.5 * w) return d;
+  if (d <= -0.5 * w) return 0.0;
+  const double u = d + 0.5 * w;
+  return u * u / (2.0 * w);
+}
+
+double node_volume(const Network& net, const Node& node, const double* y,
+                   const StateLayout& layout) {
+  double v = node.base_volume_m3;
+  if (node.cylinder >= 0) {
+    const Cylinder& c = net.cylinders[static_cast<std::size_t>(node.cylinder)];
+    const double x =
+        y[layout.first_cylinder + 2 * static_cast<std::size_t>(node.cylinder)] * kLengthScale;
+    v += node.side > 0 ? c.area_a_m2 * x : c.area_b_m2 * (c.stroke_m - x);
+  }
+  // Guard against a chamber pressed far into an end stop; never reached with
+  // a positive dead volume and a stiff end stop.
+  return std::max(v, 0.1 * node.base_volume_m3);
+}
+
+}  // namespace
+
+StateLayout make_layout(const Network& net) {
+  StateLayout l;
+  std::size_t k = 0;
+  l.node_state.assign(net.nodes.size(), -1);
+  for (std::size_t i = 0; i < net.nodes.size(); ++i) {
+    if (!net.nodes[i].fixed) l.node_state[i] = static_cast<int>(k++);
+  }
+  l.first_cylinder = k;
+  k += 2 * net.cylinders.size();
+  l.first_spool = k;
+  for (const Spool& s : net.spools) {
+    l.spool_state.push_back(k);
+    k += s.dynamics == SpoolDynamics::kSecondOrder ? 2 : 1;
+  }
+  l.pumped = k++;
+  l.returned = k++;
+  l.compressed = k++;
+  l.size = k;
+  return l;
+}
+
+std::vector<double> initial_state(const Network& net, const StateLayout& layout) {
+  std::vector<double> y(layout.size, 0.0);
+  for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+    y[layout.first_cylinder + 2 * c] = net.cylinders[c].initial_position_m / kLengthScale;
+  }
+  for (std::size_t s = 0; s < net.spools.size(); ++s) {
+    y[layout.spool_state[s]] = net.spools[s].initial;
+  }
+  return y;
+}
+
+double effective_bulk_modulus(const OilModel& oil, double p_pa) {
+  // 1/beta_e = 1/beta_oil + (V_air/V)/beta_air with isothermal air,
+  // beta_air = p_abs and V_air/V = a * p_atm / p_abs
+  // (check-values 4.3a, formula [SRC] "Equivalent bulk modulus", eq. 6.30).
+  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  // Below kMinAbsolutePressure the modulus is held, so a node that
+  // overshoots into the cavitation region still recovers.
+  const double p_abs = std::max(p_pa + oil.atmospheric_pa, kMinAbsolutePressurePa);
+  return 1.0 / (1.0 / oil.bulk_modulus_pa + air * oil.atmospheric_pa / (p_abs * p_abs));
+}
+
+double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m3,
+                    double transition_pa) {
+  // Orifice equation Q = Cd A sqrt(2 dp / rho) (check-values 4.1, [SRC] Rabie
+  // eq. 2.36). Below the transition: a + b dp^3 matched in value and slope
+  // at dp = transition (our own regularisation).
+  const double k = cd * area_m2 * std::sqrt(2.0 / density_kg_m3);
+  const double a = std::fabs(dp_pa);
+  if (a >= transition_pa) return dp_pa > 0.0 ? k * std::sqrt(a) : -k * std::sqrt(a);
+  const double st = std::sqrt(transition_pa);
+  return k * (1.25 * dp_pa / st - 0.25 * dp_pa * dp_pa * dp_pa / (transition_pa * transition_pa * st));
+}
+
+double edge_area(const Element& edge, double spool_position) {
+  const double s = std::clamp(spool_position, -1.0, 1.0);
+  double frac = 0.0;
+  switch (edge.opening) {
+    case EdgeOpening::kPositive:
+      frac = clamp01((s - edge.overlap) / (1.0 - edge.overlap));
+      break;
+    case EdgeOpening::kNegative:
+      frac = clamp01((-s - edge.overlap) / (1.0 - edge.overlap));
+      break;
+    case EdgeOpening::kCentre:
+      frac = clamp01(1.0 - std::fabs(s) / edge.centre_width);
+      break;
+  }
+  return edge.area_m2 * frac + edge.leak_area_m2;
+}
+
+void node_pressures(const Network& net, const StateLayout& layout, const double* y,
+                    std::vector<double>& p_pa) {
+  p_pa.resize(net.nodes.size());
+  for (std::size_t i = 0; i < net.nodes.size(); ++i) {
+    const int k = layout.node_state[i];
+    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : y[k] * kPressureScale;
+  }
+}
+
+double element_flow(const Network& net, const StateLayout& layout, const Element& e,
+                    const std::vector<double>& p, const double* y) {
+  const double pf = p[static_cast<std::size_t>(e.from)];
+  const double pt = p[static_cast<std::size_t>(e.to)];
+  const double dp = pf - pt;
+  const OilModel& oil = net.oil;
+  switch (e.kind) {
+    case ElementKind::kOrifice:
+      return orifice_flow(e.cd, e.area_m2, dp, oil.density_kg_m3, oil.laminar_transition_pa);
+    case ElementKind::kSpoolEdge: {
+      const double s = y[layout.spool_state[static_cast<std::size_t>(e.spool)]];
+      return orifice_flow(e.cd, edge_area(e, s), dp, oil.density_kg_m3, oil.laminar_transition_pa);
+    }
+    case ElementKind::kCheck: {
+      double open = smoothstep((dp - e.cracking_pa) / e.full_open_span_pa);
+      if (e.pilot >= 0) {
+        // Pilot-operated check: the pilot piston lifts the poppet against the
+        // load pressure (to side) once ratio * p_pilot exceeds it.
+        const double pp = p[static_cast<std::size_t>(e.pilot)];
+        open = std::max(open, smoothstep((e.pilot_ratio * pp + dp - e.cracking_pa) / e.full_open_span_pa));
+      }
+      return orifice_flow(e.cd, e.area_m2 * open + e.leak_area_m2, dp, oil.density_kg_m3,
+                          oil.laminar_transition_pa);
+    }
+    case ElementKind::kRelief:
+      // Cracking pressure plus an override gradient (linear pressure-flow
+      // characteristic above cracking; common practice, no source).
+      return soft_positive(dp - e.cracking_pa, e.blend_pa) / e.override_pa_s_m3;
+    case ElementKind::kLaminar:
+      return e.conductance_m3_s_pa * dp;
+  }
+  return 0.0;
+}
+
+double pump_flow(const Pump& pump, const NetworkInputs& in, double p_pa) {
+  if (!in.pump_running || pump.node < 0) return 0.0;
+  double q = pump.nominal_m3_s * in.pump_flow_factor;
+  if (pump.compensated) {
+    q *= smoothstep((pump.compensator_pa - p_pa) / pump.compensator_band_pa);
+  }
+  return q;
+}
+
+double load_force(const Cylinder& c, const NetworkInputs& in, std::size_t index, double t_s,
+                  double x_m, double v_m_s) {
+  double resisting = c.resisting_force_n;
+  if (index < in.extra_force_n.size()) resisting += in.extra_force_n[index];
+  const auto& prof = c.force_profile;
+  if (!prof.empty()) {
+    if (t_s <= prof.front().time_s) {
+      resisting += prof.front().force_n;
+    } else if (t_s >= prof.back().time_s) {
+      resisting += prof.back().force_n;
+    } else {
+      for (std::size_t i = 1; i < prof.size(); ++i) {
+        if (t_s <= prof[i].time_s) {
+          const double u = (t_s - prof[i - 1].time_s) / (prof[i].time_s - prof[i - 1].time_s);
+          resisting += prof[i - 1].force_n + u * (prof[i].force_n - prof[i - 1].force_n);
+          break;
+        }
+      }
+    }
+  }
+  double f = -resisting + c.gravity * c.mass_kg * kStandardGravity;
+  if (c.contact_n_m > 0.0 && x_m > c.contact_m) {
+    // Workpiece: a stiff spring-damper that can only push.
+    f -= std::max(0.0, c.contact_n_m * (x_m - c.contact_m) + c.contact_n_s_m * v_m_s);
+  }
+  return f;
+}
+
+NetworkRhs::NetworkRhs(const Network& net, const StateLayout& layout)
+    : net_(&net),
+      layout_(&layout),
+      p_(net.nodes.size()),
+      q_net_(net.nodes.size()),
+      dvdt_(net.nodes.size()) {}
+
+void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y, double* dydt) {
+  const Network& net = *net_;
+  const StateLayout& L = *layout_;
+  node_pressures(net, L, y, p_);
+  std::fill(q_net_.begin(), q_net_.end(), 0.0);
+  std::fill(dvdt_.begin(), dvdt_.end(), 0.0);
+  double returned = 0.0;
+
+  for (const Element& e : net.elements) {
+    const double q = element_flow(net, L, e, p_, y);
+    const auto f = static_cast<std::size_t>(e.from);
+    const auto t = static_cast<std::size_t>(e.to);
+    q_net_[f] -= q;
+    q_net_[t] += q;
+    if (net.nodes[t].fixed) returned += q;
+    if (net.nodes[f].fixed) returned -= q;
+  }
+  double pumped = 0.0;
+  if (net.pump.node >= 0) {
+    pumped = pump_flow(net.pump, in, p_[static_cast<std::size_t>(net.pump.node)]);
+    q_net_[static_cast<std::size_t>(net.pump.node)] += pumped;
+  }
+
+  for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+    const Cylinder& cyl = net.cylinders[c];
+    const std::size_t k = L.first_cylinder + 2 * c;
+    const double x = y[k] * kLengthScale;
+    const double v = y[k + 1] * kLengthScale;
+    const auto a = static_cast<std::size_t>(cyl.node_a);
+    const auto b = static_cast<std::size_t>(cyl.node_b);
+    const double leak = cyl.leak_m3_s_pa + (c < in.extra_leak_m3_s_pa.size() ? in.extra_leak_m3_s_pa[c] : 0.0);
+    const double q_leak = leak * (p_[a] - p_[b]);
+    q_net_[a] -= q_leak;
+    q_net_[b] += q_leak;
+    dvdt_[a] += cyl.area_a_m2 * v;
+    dvdt_[b] -= cyl.area_b_m2 * v;
+
+    double f = p_[a] * cyl.area_a_m2 - p_[b] * cyl.area_b_m2;
+    f -= cyl.coulomb_n * std::tanh(v / cyl.coulomb_velocity_m_s) + cyl.viscous_n_s_m * v;
+    f += load_force(cyl, in, c, t_s, x, v);
+    // End stops: stiff spring-dampers that can only push back.
+    if (x < 0.0) f += std::max(0.0, -cyl.end_stop_n_m * x - cyl.end_stop_n_s_m * v);
+    if (x > cyl.stroke_m) f += std::min(0.0, -cyl.end_stop_n_m * (x - cyl.stroke_m) - cyl.end_stop_n_s_m * v);
+    dydt[k] = y[k + 1];
+    dydt[k + 1] = f / cyl.mass_kg / kLengthScale;
+  }
+
+  double compressed = 0.0;
+  for (std::size_t i = 0; i < net.nodes.size(); ++i) {
+    const int k = L.node_state[i];
+    if (k < 0) continue;
+    const double vol = node_volume(net, net.nodes[i], y, L);
+    const double beta = effective_bulk_modulus(net.oil, p_[i]);
+    const double dp = beta / vol * (q_net_[i] - dvdt_[i]);
+    dydt[k] = dp / kPressureScale;
+    compressed += vol / beta * dp;
+  }
+
+  for (std::size_t s = 0; s < net.spools.size(); ++s) {
+    const Spool& sp = net.spools[s];
+    const std::size_t k = L.spool_state[s];
+    const bool stuck = s < in.spool_stuck.size() && in.spool_stuck[s];
+    const double target = s < in.spool_target.size() ? in.spool_target[s] : 0.0;
+    switch (sp.dynamics) {
+      case SpoolDynamics::kRateLimited: {
+        // Linear in a 1 % band around the target so the rate stays continuous.
+        const double tau = 0.01 / sp.rate_per_s;
+        dydt[k] = stuck ? 0.0 : std::clamp((target - y[k]) / tau, -sp.rate_per_s, sp.rate_per_s);
+        break;
+      }
+      case SpoolDynamics::kFirstOrder:
+        dydt[k] = stuck ? 0.0 : (target - y[k]) / sp.time_constant_s;
+        break;
+      case SpoolDynamics::kSecondOrder: {
+        const double w = sp.natural_rad_s;
+        dydt[k] = stuck ? 0.0 : y[k + 1];
+        dydt[k + 1] = stuck ? 0.0 : w * w * (target - y[k]) - 2.0 * sp.damping * w * y[k + 1];
+        break;
+      }
+    }
+  }
+  dydt[L.pumped] = pumped / kVolumeScale;
+  dydt[L.returned] = returned / kVolumeScale;
+  dydt[L.compressed] = compressed / kVolumeScale;
+}
+
+}  // namespace spoolstep::hostsim

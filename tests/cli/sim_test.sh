@@ -1,0 +1,73 @@
+#!/usr/bin/env bash
+# spoolstep sim as a user runs it: the demo cycle passes, its four result
+# files are complete and deterministic, bad input leaves nothing behind.
+set -u
+bin=$1
+src=$2
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+failures=0
+fail() { echo "FAIL: $*"; failures=$((failures + 1)); }
+
+machine=$src/config/press_cell.json
+scenario=$src/config/scenarios/press_cell_cycle.json
+
+"$bin" sim "$machine" "$scenario" --out "$work/run1" >"$work/out1.txt" 2>"$work/err1.txt"
+code=$?
+[ $code -eq 0 ] || fail "demo cycle exit code $code: $(cat "$work/out1.txt")"
+for f in trace.csv summary.json io.vcd report.html; do
+  [ -s "$work/run1/$f" ] || fail "missing or empty $f"
+done
+grep -q "spoolstep sim: 100%" "$work/err1.txt" || fail "no progress lines on stderr"
+grep -q "results in" "$work/out1.txt" || fail "does not say where the results are"
+grep -q "not a safety-rated control system" "$work/out1.txt" || fail "no safety caution in the output"
+
+"$bin" sim "$machine" "$scenario" --out "$work/run2" -q >/dev/null 2>&1
+cmp -s "$work/run1/trace.csv" "$work/run2/trace.csv" || fail "two runs gave different traces"
+cmp -s "$work/run1/io.vcd" "$work/run2/io.vcd" || fail "two runs gave different VCD files"
+
+# Value Change Dump (IEEE 1364 clause 18): header keywords and a first time stamp.
+grep -q '^\$timescale 1 us \$end' "$work/run1/io.vcd" || fail "VCD timescale"
+grep -q '^\$enddefinitions \$end' "$work/run1/io.vcd" || fail "VCD end of definitions"
+grep -q '^#0$' "$work/run1/io.vcd" || fail "VCD first time stamp"
+grep -q 'di_guard_door_closed' "$work/run1/io.vcd" || fail "VCD lacks the guard input"
+
+grep -q '"passed": true' "$work/run1/summary.json" || fail "summary does not say passed"
+grep -q '"cycle_times_s"' "$work/run1/summary.json" || fail "summary lacks the cycle time"
+grep -q '<svg' "$work/run1/report.html" || fail "report has no plots"
+grep -q 'not a safety-rated control system' "$work/run1/report.html" || fail "report lacks the caution"
+
+# Running again into the same directory replaces it whole.
+"$bin" sim "$machine" "$scenario" --out "$work/run1" -q >/dev/null 2>&1 || fail "rerun into the same directory"
+[ -e "$work/run1.partial" ] && fail "staging directory left behind"
+
+# Bad input: exit 2, message with file and JSON path, no output directory.
+sed 's/"sensor_wire_break"/"sensor_wirebreak"/' "$scenario" >"$work/bad_fault.json"
+"$bin" sim "$machine" "$work/bad_fault.json" --out "$work/bad" >/dev/null 2>"$work/bad_err.txt"
+code=$?
+[ $code -eq 2 ] || fail "unknown fault kind: exit code $code"
+grep -q "bad_fault.json: /timeline/.*/plant_fault: unknown plant fault kind 'sensor_wirebreak'" "$work/bad_err.txt" || fail "fault message: $(cat "$work/bad_err.txt")"
+[ -e "$work/bad" ] && fail "output directory created for bad input"
+[ -e "$work/bad.partial" ] && fail "staging directory created for bad input"
+
+# A plant-driven input may not be scripted.
+sed 's/"oil_level_ok": true}/"oil_level_ok": true, "press_top_ls": true}/' "$scenario" >"$work/driven.json"
+"$bin" sim "$machine" "$work/driven.json" --out "$work/driven" >/dev/null 2>"$work/driven_err.txt"
+[ $? -eq 2 ] || fail "scripting a plant-driven input should be refused"
+grep -q "press_top_ls' is driven by the plant model" "$work/driven_err.txt" || fail "driven input message: $(cat "$work/driven_err.txt")"
+
+# An --out that holds someone else's files is refused.
+mkdir -p "$work/precious" && echo keep >"$work/precious/notes.txt"
+"$bin" sim "$machine" "$scenario" --out "$work/precious" -q >/dev/null 2>"$work/precious_err.txt"
+[ $? -eq 2 ] || fail "a foreign output directory should be refused"
+[ -f "$work/precious/notes.txt" ] || fail "a foreign file was deleted"
+
+# A failing expectation: exit 1, and the results are still written.
+sed 's/"before_s": 8.0/"before_s": 5.0/' "$scenario" >"$work/late.json"
+"$bin" sim "$machine" "$work/late.json" --out "$work/late" -q >"$work/late_out.txt" 2>&1
+[ $? -eq 1 ] || fail "a failed expectation should exit 1"
+grep -q '"passed": false' "$work/late/summary.json" || fail "summary should say failed"
+
+if [ "$failures" -eq 0 ]; then echo "sim tests: all passed"; exit 0; fi
+echo "sim tests: $failures failed"
+exit 1

@@ -1,0 +1,118 @@
+// spoolstep sim: the control core and the hydraulic plant model in
+// lock-step at the core's scan period, driven by a scenario. Writes
+// trace.csv, summary.json, io.vcd and report.html into --out, which appears
+// whole or not at all.
+#include <fstream>
+#include <iostream>
+
+#include <fmt/format.h>
+
+#include "command_registry.hpp"
+#include "run_common.hpp"
+#include "spoolstep/benchrun/report.hpp"
+#include "spoolstep/benchrun/sinks.hpp"
+#include "spoolstep/benchrun/plant_adapter.hpp"
+
+namespace spoolstep::cli {
+namespace {
+
+using benchrun::PlantAdapter;
+using benchrun::plant_facts;
+
+struct SimOptions {
+  std::string machine_path;
+  std::string scenario_path;
+  std::string out_dir;
+  bool quiet = false;
+};
+
+int run_sim(const SimOptions& o) {
+  auto machine = load_machine_or_report(o.machine_path, "sim");
+  if (!machine) return kExitBadInput;
+  if (machine->plant.is_null()) {
+    std::cerr << "spoolstep sim: " << o.machine_path
+              << ": the machine file has no \"plant\" section. Add one (see docs/plant-model.md), or use 'spoolstep replay' to run the core alone.\n";
+    return kExitBadInput;
+  }
+  hostsim::BuildResult built = hostsim::build_plant(machine->plant, machine->config, o.machine_path);
+  if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
+    for (const auto& e : *errors) std::cerr << "spoolstep sim: " << e.message() << "\n";
+    return kExitBadInput;
+  }
+  hostsim::Plant& plant = *std::get<std::unique_ptr<hostsim::Plant>>(built);
+  PlantAdapter adapter(plant);
+  const benchrun::PlantFacts facts = plant_facts(plant, machine->config, adapter.signals());
+  auto scenario = load_scenario_or_report(o.scenario_path, machine->config, &facts, "sim");
+  if (!scenario) return kExitBadInput;
+
+  benchrun::StagedDirectory out(o.out_dir);
+  if (!out.error().empty()) {
+    std::cerr << "spoolstep sim: " << out.error() << "\n";
+    return kExitBadInput;
+  }
+  std::ofstream csv_file(out.file("trace.csv"), std::ios::binary);
+  std::ofstream vcd_file(out.file("io.vcd"), std::ios::binary);
+  benchrun::CsvTraceWriter csv(csv_file);
+  benchrun::VcdWriter vcd(vcd_file, "spoolstep");
+  benchrun::ExpectationChecker checker(*scenario, machine->config);
+  benchrun::FigureCollector figures;
+  const double period_s = static_cast<double>(machine->config.safety.scan_period_us) * 1e-6;
+  benchrun::PlotCollector plots(scenario->duration_s, period_s);
+  const benchrun::RunOutcome outcome =
+      benchrun::run_scenario(machine->config, *scenario, &adapter, {&csv, &vcd, &checker, &figures, &plots},
+                             o.quiet ? benchrun::RunOptions{} : progress_on_stderr("sim"));
+
+  benchrun::RunReport report;
+  report.machine_path = o.machine_path;
+  report.scenario_path = o.scenario_path;
+  report.scenario_description = scenario->description;
+  report.machine = &machine->config;
+  report.duration_s = scenario->duration_s;
+  report.scans = outcome.scans;
+  report.completed = outcome.completed && !adapter.integrator_error();
+  report.run_error = !outcome.error.empty() ? outcome.error : adapter.integrator_error().value_or("");
+  report.expectations = checker.results();
+  report.figures = &figures;
+  report.plots = &plots;
+  std::ofstream(out.file("summary.json"), std::ios::binary) << benchrun::summary_json(report).dump(2) << "\n";
+  std::ofstream(out.file("report.html"), std::ios::binary) << benchrun::report_html(report);
+  csv_file.close();
+  vcd_file.close();
+  if (!csv_file || !vcd_file || !out.commit()) {
+    std::cerr << "spoolstep sim: could not write the results: " << out.error() << "\n";
+    return kExitInternal;
+  }
+
+  std::cout << fmt::format("{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
+  if (!report.run_error.empty()) std::cout << "run stopped early: " << report.run_error << "\n";
+  std::cout << fmt::format("  {:4}  {:<44} {}\n", "", "expectation", "observed");
+  for (const auto& r : checker.results()) {
+    std::cout << fmt::format("  {:4}  {:<44} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
+  }
+  for (double c : figures.cycle_times_s()) std::cout << fmt::format("  cycle time {:.3f} s\n", c);
+  for (const auto& p : figures.peak_pressures())
+    std::cout << fmt::format("  peak {} {:.1f} {} at {:.3f} s\n", p.signal, p.value, p.unit, p.at_s);
+  std::cout << "results in " << o.out_dir << "/ (report.html, trace.csv, io.vcd, summary.json)\n";
+  std::cout << "Caution: " << benchrun::kSafetyCaution << "\n";
+  const bool passed = report.completed && checker.all_passed();
+  return passed ? kExitOk : kExitFailed;
+}
+
+const bool kRegistered = register_command(Command{
+    "sim",
+    [](CLI::App& sub) {
+      auto options = std::make_shared<SimOptions>();
+      sub.add_option("machine", options->machine_path, "Machine file with a plant section (JSON)")
+          ->required()->check(CLI::ExistingFile);
+      sub.add_option("scenario", options->scenario_path, "Scenario: timeline and expectations (JSON)")
+          ->required()->check(CLI::ExistingFile);
+      sub.add_option("--out", options->out_dir, "Output directory (created or replaced whole)")->required();
+      sub.add_flag("-q,--quiet", options->quiet, "No progress lines");
+      sub.footer("Exit codes: 0 every expectation passed, 1 an expectation failed or the run stopped early, "
+                 "2 bad input (nothing written), 3 internal error.");
+      return [options] { return run_sim(*options); };
+    },
+    "Run the control core against the hydraulic plant model in closed loop and report"});
+
+}  // namespace
+}  // namespace spoolstep::cli
