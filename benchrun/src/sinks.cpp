@@ -234,7 +234,7 @@ void ExpectationChecker::end(double t_end_s) {
         break;
       case Expectation::Kind::kSafeWithin: {
         r.kind = "safe_within";
-        const double took_ms = (l.first_time - x.at_s) * 1e3;
+        const double took_ms = std::max(0.0, (l.first_time - x.at_s) * 1e3);
         r.passed = l.done && took_ms <= x.within_ms + 1e-6;
         r.detail = l.done ? fmt::format("valve outputs off {:.1f} ms after {:.3f} s (limit {} ms)", took_ms, x.at_s, number(x.within_ms))
                           : "valve outputs never all off";
