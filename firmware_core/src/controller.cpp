@@ -10,8 +10,19 @@
 //   8. output invariant check (never both solenoids of one valve)
 #include "spoolstep/core/controller.hpp"
 
+#include <cmath>
+
 namespace spoolstep::core {
 namespace {
+
+// A scan loop always advances its clock; this many scans in a row with the
+// same time stamp mean the time source is stuck.
+constexpr std::uint8_t kMaxFrozenScans = 3;
+// A "forward" interval this long is a clock that ran backwards (modulo 2^32).
+constexpr std::uint32_t kMaxPlausibleIntervalUs = 0x80000000u;
+// Allowance on top of the longest quick stop before a controlled stop is
+// declared stuck and cut to category 0.
+constexpr std::uint32_t kStopMarginUs = 500000;
 
 // NAMUR NE 43 failure bands (check-values.md §2: 3.6 mA and 21 mA [SRC];
 // inclusive bounds from memory of the NE 43 figure).
@@ -41,13 +52,55 @@ Status Controller::init(const MachineConfig& config) {
   previous_now_us_ = 0;
   nodes_ = {};
   two_hand_ = {};
+  // Both hands must be seen released after power-up before a two-hand
+  // command counts (ISO 13851:2019 5.7, re-initiation).
+  for (TwoHandStep& t : two_hand_) t.phase = TwoHandPhase::kBlocked;
   functions_ = {};
   prev_reset_ = prev_cycle_start_ = prev_pump_start_ = false;
   blocked_motions_ = immediate_motions_ = 0;
   pump_elapsed_us_ = 0;
   supervision_raised_ = false;
+  overflow_this_scan_ = false;
+  end_cycle_requested_ = false;
+  frozen_scans_ = 0;
+  stopping_us_ = 0;
+  stopping_scans_ = 0;
+  reach_ = {};
+  stop_limit_us_ = kStopMarginUs;
   diag_ = Diagnostics{};
+  if (config_ok_) {
+    compute_reach();
+    for (std::uint8_t i = 0; i < config.function_count; ++i) {
+      const FunctionConfig& f = config.functions[i];
+      if (is_proportional(f.valve) && f.quick_stop_us + kStopMarginUs > stop_limit_us_) {
+        stop_limit_us_ = f.quick_stop_us + kStopMarginUs;
+      }
+    }
+  }
   return status;
+}
+
+void Controller::compute_reach() {
+  // Motions each step demands, then everything reachable before the chain
+  // returns to its initial step (a fixpoint over the transitions).
+  const MachineConfig& c = *config_;
+  for (std::uint8_t s = 0; s < c.step_count; ++s) {
+    for (std::uint8_t k = 0; k < c.steps[s].action_count; ++k) {
+      const StepAction& a = c.steps[s].actions[k];
+      reach_[s] |= motion_bit(a.function, a.direction);
+    }
+  }
+  for (std::uint8_t round = 0; round < c.step_count; ++round) {
+    bool changed = false;
+    for (std::uint8_t t = 0; t < c.transition_count; ++t) {
+      const TransitionConfig& tr = c.transitions[t];
+      if (tr.to_step == 0) continue;  // back at the initial step: the cycle is over
+      const std::uint32_t merged = reach_[tr.from_step] | reach_[tr.to_step];
+      changed = changed || merged != reach_[tr.from_step];
+      reach_[tr.from_step] = merged;
+    }
+    if (!changed) break;
+  }
 }
 
 void Controller::log(std::uint32_t now_us, EventCode code, std::uint8_t subject,
@@ -75,6 +128,7 @@ void Controller::raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t
     diag_.faults[diag_.fault_count++] = Fault{code, subject, detail, category, now_us, true};
   } else {
     diag_.faults_overflowed = true;  // treated as category 0: an unrecorded fault must still stop
+    overflow_this_scan_ = true;
   }
   log(now_us, EventCode::kFaultRaised, static_cast<std::uint8_t>(code), subject);
 }
@@ -83,7 +137,9 @@ StopCategory Controller::worst_category() const {
   if (diag_.faults_overflowed) return StopCategory::kCat0;
   StopCategory worst = StopCategory::kCat2;
   for (std::uint8_t i = 0; i < diag_.fault_count; ++i) {
-    if (diag_.faults[i].category < worst) worst = diag_.faults[i].category;
+    const StopCategory category = diag_.faults[i].category;
+    if (category > StopCategory::kCat2) return StopCategory::kCat0;  // corrupted: the safest reading
+    if (category < worst) worst = category;
   }
   return worst;
 }
@@ -109,6 +165,8 @@ void Controller::check_inputs(const InputImage& in, std::uint32_t now_us) {
     AnalogFaultReason reason = AnalogFaultReason::kUnhealthy;
     if (!sample.healthy) {
       reason = AnalogFaultReason::kUnhealthy;
+    } else if (!std::isfinite(sample.value)) {
+      reason = AnalogFaultReason::kNotFinite;
     } else if (cfg.max_age_us != 0 && sample.age_us > cfg.max_age_us) {
       reason = AnalogFaultReason::kStale;
     } else if (cfg.signal == AnalogSignal::kCurrent4To20 && sample.value <= kNe43FailLowMa) {
@@ -225,6 +283,9 @@ void Controller::evaluate_conditions(const InputImage& in, std::uint32_t dt_us) 
         v = nodes_[n.a].value && s.timer_us >= n.time_us;
         break;
       case ConditionOp::kOffDelay:
+        // At power-up the child counts as "off for long": an off-delay must
+        // not make a condition true that has never been true.
+        if (first_scan_) s.timer_us = n.time_us;
         s.timer_us = nodes_[n.a].value ? 0 : saturating_add(s.timer_us, dt_us);
         v = nodes_[n.a].value || s.timer_us < n.time_us;
         break;
@@ -320,21 +381,34 @@ void Controller::apply_event(MachineEvent event, std::uint32_t now_us) {
   }
 }
 
-void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us) {
-  const MachineConfig& c = *config_;
-  const OperatorCommands& cmd = in.commands;
+void Controller::apply_fault_events(std::uint32_t now_us) {
   if (any_fault()) {
     apply_event(worst_category() == StopCategory::kCat0 ? MachineEvent::kFaultImmediate
                                                         : MachineEvent::kFaultControlled,
                 now_us);
   }
+}
+
+bool Controller::initial_step_can_start() const {
+  const MachineConfig& c = *config_;
+  for (std::uint8_t t = 0; t < c.transition_count; ++t) {
+    if (c.transitions[t].from_step == 0 && node(c.transitions[t].condition)) return true;
+  }
+  return false;
+}
+
+void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us) {
+  const MachineConfig& c = *config_;
+  const OperatorCommands& cmd = in.commands;
+  apply_fault_events(now_us);
   const bool reset = edge(node(c.operator_panel.reset) || cmd.reset, prev_reset_);
   const bool cycle_start =
       edge(node(c.operator_panel.cycle_start) || cmd.cycle_start, prev_cycle_start_);
+  const bool cycle_stop = node(c.operator_panel.cycle_stop) || cmd.cycle_stop;
   diag_.auto_selected = node(c.operator_panel.auto_mode) || cmd.select_auto;
 
   if (reset && (diag_.state == MachineState::kFaulted || diag_.state == MachineState::kPowerUp)) {
-    bool cause_left = diag_.faults_overflowed;
+    bool cause_left = overflow_this_scan_;
     for (std::uint8_t i = 0; i < diag_.fault_count; ++i) {
       cause_left = cause_left || diag_.faults[i].cause_present;
     }
@@ -350,9 +424,25 @@ void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us
   }
   apply_event(diag_.auto_selected ? MachineEvent::kSelectAuto : MachineEvent::kSelectManual,
               now_us);
-  if (cycle_start) apply_event(MachineEvent::kCycleStart, now_us);
-  if (node(c.operator_panel.cycle_stop) || cmd.cycle_stop) {
-    apply_event(MachineEvent::kCycleStop, now_us);
+  if (cycle_start) {
+    if (diag_.state == MachineState::kAutoIdle && !initial_step_can_start()) {
+      // A start the machine cannot act on now is refused, not stored: it
+      // would otherwise fire by itself when the conditions come true later.
+      log(now_us, EventCode::kStartRefused, 0, 0);
+    } else {
+      apply_event(MachineEvent::kCycleStart, now_us);
+    }
+  }
+  if (cycle_stop && (chain_running(diag_.state) || diag_.state == MachineState::kAutoHeld)) {
+    end_cycle_requested_ = true;
+  }
+  if (end_cycle_requested_) apply_event(MachineEvent::kCycleStop, now_us);
+  if (!chain_running(diag_.state) && diag_.state != MachineState::kAutoHeld) end_cycle_requested_ = false;
+  // A permissive that guards any motion the chain may still demand in this
+  // cycle holds it, whatever the present step moves: closing a guard must
+  // never let the cycle go on by itself.
+  if (chain_running(diag_.state) && (blocked_motions_ & reach_[diag_.active_step]) != 0) {
+    apply_event(MachineEvent::kPermissiveHold, now_us);
   }
 }
 
@@ -365,7 +455,8 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
   for (std::uint8_t t = 0; t < c.transition_count; ++t) {
     const TransitionConfig& tr = c.transitions[t];
     if (tr.from_step != active) continue;
-    if (diag_.step_elapsed_us < step.min_time_us || !node(tr.condition)) continue;
+    // The initial step only waits for its start; its minimum time does not apply.
+    if ((active != 0 && diag_.step_elapsed_us < step.min_time_us) || !node(tr.condition)) continue;
     diag_.active_step = tr.to_step;
     diag_.step_elapsed_us = 0;
     supervision_raised_ = false;
@@ -377,6 +468,13 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
       apply_event(continuous ? MachineEvent::kCycleRepeat : MachineEvent::kCycleComplete, now_us);
     }
     return;  // one transition per scan
+  }
+  if (active == 0) {
+    // A cycle (or a continuous repeat) whose start conditions do not hold
+    // ends here instead of waiting to start by itself later.
+    log(now_us, EventCode::kStartRefused, 0, 0);
+    apply_event(MachineEvent::kCycleComplete, now_us);
+    return;
   }
   if (step.supervision_us != 0 && diag_.step_elapsed_us > step.supervision_us &&
       !supervision_raised_) {
@@ -496,25 +594,33 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       stop = (immediate_motions_ & bit) ? StopKind::kImmediate : StopKind::kQuick;
       // The lost permissive must not let the motion restart by itself when
       // it comes back: manual needs the jog pressed again, automatic a new
-      // cycle start.
+      // cycle start (the chain holds: see update_machine_state, and below
+      // for lost pressure).
       (want == Direction::kExtend ? r.rearm_extend : r.rearm_retract) = true;
-      if (chain_running(diag_.state)) hold_chain = true;
+      if (chain_running(diag_.state) && (blocked_motions_ & bit) == 0) hold_chain = true;
       want = Direction::kNone;
     }
-    // End of travel and the position window cut the motion at once.
-    if (want != Direction::kNone) {
-      const std::uint8_t end = want == Direction::kExtend ? f.extended_end_input : f.retracted_end_input;
-      bool at_end = end != kNoIndex8 && in.digital[end];
+    // End of travel and the position window cut the motion at once, also
+    // the side still moving while it decelerates.
+    auto at_end = [&](Direction side) {
+      const std::uint8_t end = side == Direction::kExtend ? f.extended_end_input : f.retracted_end_input;
+      bool reached = end != kNoIndex8 && in.digital[end];
       if (f.position_input != kNoIndex8) {
         const float pos = diag_.analog_value[f.position_input];
-        at_end = at_end || (want == Direction::kExtend ? pos >= f.extend_limit : pos <= f.retract_limit);
+        reached = reached || (side == Direction::kExtend ? pos >= f.extend_limit : pos <= f.retract_limit);
       }
-      if (at_end) {
-        if (r.side == want) log(now_us, EventCode::kEndOfTravel, i, static_cast<std::uint16_t>(want));
-        stop = StopKind::kImmediate;
-        want = Direction::kNone;
-      }
+      return reached;
+    };
+    if (want != Direction::kNone && at_end(want)) {
+      if (r.side == want) log(now_us, EventCode::kEndOfTravel, i, static_cast<std::uint16_t>(want));
+      stop = StopKind::kImmediate;
+      want = Direction::kNone;
     }
+    if (r.side != Direction::kNone && want != r.side && at_end(r.side)) stop = StopKind::kImmediate;
+    // A category 0 permissive removes the valve's power (its enable) for as
+    // long as it is lost, not only the command.
+    r.enable_cut = (immediate_motions_ & (motion_bit(i, Direction::kExtend) |
+                                          motion_bit(i, Direction::kRetract))) != 0;
     // A stop keeps its severity until the function is at rest: a quick stop
     // is not relaxed into a normal deceleration halfway.
     if (want == Direction::kNone && r.side != Direction::kNone && stop < r.stop) stop = r.stop;
@@ -557,16 +663,21 @@ void Controller::drive_function(std::uint8_t index, std::uint32_t dt_us) {
       break;
     case ValveKind::kSolenoid42Detented:
       if (r.pulse_side != Direction::kNone) {
-        r.pulse_us = saturating_add(r.pulse_us, dt_us);
-        if (r.pulse_us >= f.detent_pulse_us) {
-          status.detent_side = r.pulse_side;
+        if (r.stop != StopKind::kNone) {
+          // Any stop cuts a shift in progress; where the spool came to rest
+          // is unknown, so the next command pulses whichever side it names.
           r.pulse_side = Direction::kNone;
+          status.detent_side = Direction::kNone;
+        } else {
+          r.pulse_us = saturating_add(r.pulse_us, dt_us);
+          if (r.pulse_us >= f.detent_pulse_us) {
+            status.detent_side = r.pulse_side;
+            r.pulse_side = Direction::kNone;
+          }
         }
       }
-      if (r.stop == StopKind::kImmediate) {
-        r.pulse_side = Direction::kNone;  // power removed: the spool stays where the detent holds it
-      } else if (want != Direction::kNone && want != status.detent_side &&
-                 r.pulse_side == Direction::kNone) {
+      if (r.stop == StopKind::kNone && want != Direction::kNone && want != status.detent_side &&
+          r.pulse_side == Direction::kNone) {
         r.pulse_side = want;
         r.pulse_us = 0;
       }
@@ -627,7 +738,8 @@ void Controller::write_outputs(OutputImage& out) const {
   for (std::uint8_t i = 0; i < c.function_count; ++i) {
     const FunctionConfig& f = c.functions[i];
     const FunctionRuntime& r = functions_[i];
-    const float cmd = r.ramp.value;
+    // Never more than full scale, whatever a ramp did.
+    const float cmd = r.ramp.value > 1.0f ? 1.0f : (r.ramp.value < -1.0f ? -1.0f : r.ramp.value);
     switch (f.valve) {
       case ValveKind::kSolenoid43SpringCentred:
       case ValveKind::kSolenoid42Detented:
@@ -661,7 +773,7 @@ void Controller::write_outputs(OutputImage& out) const {
         break;
       }
     }
-    if (f.enable_coil != kNoIndex8) out.coils[f.enable_coil] = powered;
+    if (f.enable_coil != kNoIndex8) out.coils[f.enable_coil] = powered && !r.enable_cut;
   }
   const PowerUnitConfig& pu = c.power_unit;
   if (pu.present) {
@@ -695,9 +807,9 @@ void Controller::enforce_output_invariants(OutputImage& out, std::uint32_t now_u
 
 void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& out) {
   out = OutputImage{};  // every channel off unless its owner drives it below
-  const std::uint32_t dt_us = first_scan_ ? 0 : now_us - previous_now_us_;  // modulo 2^32
+  const std::uint32_t raw_dt_us = first_scan_ ? 0 : now_us - previous_now_us_;  // modulo 2^32
   previous_now_us_ = now_us;
-  diag_.last_scan_interval_us = dt_us;
+  diag_.last_scan_interval_us = raw_dt_us;
   if (!config_ok_ || config_ == nullptr) {
     if (diag_.fault_count == 0) raise_fault(FaultCode::kConfigInvalid, 0, 0, StopCategory::kCat0, now_us);
     diag_.state = MachineState::kFaulted;
@@ -707,10 +819,21 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
   const MachineConfig& c = *config_;
 
   for (std::uint8_t i = 0; i < diag_.fault_count; ++i) diag_.faults[i].cause_present = false;
-  if (!first_scan_ && c.safety.watchdog_us != 0 && dt_us > c.safety.watchdog_us) {
-    // Raised for this scan only: once scans are on time again a reset may clear it.
-    raise_fault(FaultCode::kScanWatchdog, 0, 0, StopCategory::kCat0, now_us);
+  overflow_this_scan_ = false;
+  if (!first_scan_) {
+    frozen_scans_ = raw_dt_us == 0 ? static_cast<std::uint8_t>(frozen_scans_ < 255 ? frozen_scans_ + 1 : 255) : 0;
+    if (frozen_scans_ >= kMaxFrozenScans || raw_dt_us >= kMaxPlausibleIntervalUs) {
+      raise_fault(FaultCode::kTimeSource, 0, 0, StopCategory::kCat0, now_us);
+    }
+    if (c.safety.watchdog_us != 0 && raw_dt_us > c.safety.watchdog_us) {
+      // Raised for this scan only: once scans are on time again a reset may clear it.
+      raise_fault(FaultCode::kScanWatchdog, 0, 0, StopCategory::kCat0, now_us);
+    }
   }
+  // A late scan is a fault already; timers and ramps integrate no more than
+  // the watchdog interval, so nothing jumps ahead on the way to the stop.
+  const std::uint32_t dt_us =
+      c.safety.watchdog_us != 0 && raw_dt_us > c.safety.watchdog_us ? c.safety.watchdog_us : raw_dt_us;
   check_inputs(in, now_us);
   update_two_hand(in, dt_us, now_us);
   continuous_command_ = in.commands.continuous;
@@ -722,8 +845,25 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
   update_machine_state(in, now_us);
   run_sequence(dt_us, now_us);
   update_power_unit(in, dt_us, now_us);
+  apply_fault_events(now_us);  // faults raised by the chain or the power unit act in this scan
   decide_demands(in, now_us);
   for (std::uint8_t i = 0; i < c.function_count; ++i) drive_function(i, dt_us);
+  if (diag_.state == MachineState::kStopping) {
+    // A controlled stop that does not finish in time becomes category 0,
+    // counted in time and in scans so a slow clock cannot stretch it.
+    stopping_us_ = saturating_add(stopping_us_, dt_us);
+    ++stopping_scans_;
+    const std::uint32_t period = c.safety.scan_period_us == 0 ? 1000u : c.safety.scan_period_us;
+    if (stopping_us_ > stop_limit_us_ || stopping_scans_ > 4u * (stop_limit_us_ / period) + 100u) {
+      raise_fault(FaultCode::kStopTimeout, 0, 0, StopCategory::kCat0, now_us);
+      apply_event(MachineEvent::kFaultImmediate, now_us);
+      decide_demands(in, now_us);
+      for (std::uint8_t i = 0; i < c.function_count; ++i) drive_function(i, 0);
+    }
+  } else {
+    stopping_us_ = 0;
+    stopping_scans_ = 0;
+  }
   if (diag_.state == MachineState::kStopping && all_stopped()) {
     apply_event(MachineEvent::kStopComplete, now_us);
     update_power_unit(in, 0, now_us);  // category 1: power goes once the stop is complete

@@ -72,6 +72,11 @@ void advance_ramp(RampState& state, float target, const RampLimits& extend,
       const bool growing = d > 0.0f;
       const float a_max = growing ? limits.accel_per_s : limits.decel_per_s;
       const float jerk = a_max / limits.jerk_time_s;
+      // The rate may come from another ramp (or a linear one): never carry
+      // more than this ramp allows, and never keep growing once the target
+      // is below the value -- a jerk limit must not delay slowing down.
+      if (!growing && q > 0.0f) q = 0.0f;
+      q = clampf(q, -limits.decel_per_s, limits.accel_per_s);
       const float jdt = jerk * dt_s;
       const float q_cap = 0.5f * (std::sqrt(jdt * jdt + 8.0f * jerk * std::fabs(d)) - jdt);
       const float q_wanted = growing ? (q_cap < a_max ? q_cap : a_max)
@@ -88,6 +93,10 @@ void advance_ramp(RampState& state, float target, const RampLimits& extend,
   if (m_next <= 0.0f) {  // reached centre: stop there, never cross in one call
     m_next = 0.0f;
     if (q < 0.0f) q = 0.0f;
+  }
+  if (m_next > 1.0f) {  // never beyond full opening
+    m_next = 1.0f;
+    if (q > 0.0f) q = 0.0f;
   }
   state.value = side_sign * m_next;
   state.rate = side_sign * q;

@@ -9,7 +9,12 @@
 namespace spoolstep::core {
 namespace {
 
+// Longest quick stop the core accepts: a controlled stop must end.
+constexpr std::uint32_t kMaxQuickStopUs = 10000000;
+
 bool io_ok(std::uint8_t index, std::uint8_t count) { return index == kNoIndex8 || index < count; }
+bool finite(float x) { return std::isfinite(x); }
+bool category_ok(StopCategory c) { return c <= StopCategory::kCat2; }
 bool cond_ok(std::uint16_t index, std::uint16_t count) {
   return index == kNoCondition || index < count;
 }
@@ -35,8 +40,10 @@ Status check_nodes(const MachineConfig& c) {
     switch (n.op) {
       case ConditionOp::kTrue:
       case ConditionOp::kFalse:
-      case ConditionOp::kModeIs:
       case ConditionOp::kPowerUnitReady:
+        break;
+      case ConditionOp::kModeIs:
+        if (n.b > 1) return Status::error(StatusCode::kBadValue, "nodes", i);
         break;
       case ConditionOp::kDigitalInput:
         if (n.a >= c.digital_input_count) return Status::error(StatusCode::kIndexOutOfRange, "nodes", i);
@@ -44,7 +51,8 @@ Status check_nodes(const MachineConfig& c) {
       case ConditionOp::kAnalogAbove:
       case ConditionOp::kAnalogBelow:
         if (n.a >= c.analog_input_count) return Status::error(StatusCode::kIndexOutOfRange, "nodes", i);
-        if (!(n.hysteresis >= 0.0f)) return Status::error(StatusCode::kBadValue, "nodes", i);
+        if (!(n.hysteresis >= 0.0f) || !finite(n.threshold) || !finite(n.hysteresis))
+          return Status::error(StatusCode::kBadValue, "nodes", i);
         break;
       case ConditionOp::kFunctionState:
         if (n.a >= c.function_count || n.b > static_cast<std::uint16_t>(FunctionCondition::kStopped))
@@ -135,6 +143,16 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
       return Status::error(StatusCode::kCapacityExceeded, "functions", i);
     if (!(f.jog_speed_percent >= 0.0f && f.jog_speed_percent <= 100.0f))
       return Status::error(StatusCode::kBadValue, "functions", i);
+    if (f.centre > ValveCentre::kRegenerative || !finite(f.extend_limit) || !finite(f.retract_limit))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    // A proportional valve's quick stop must be a ramp that ends.
+    if (is_proportional(f.valve) && (f.quick_stop_us == 0 || f.quick_stop_us > kMaxQuickStopUs))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    if (f.valve == ValveKind::kSolenoid42Detented && f.detent_pulse_us == 0)
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    for (std::uint8_t k = 0; k < f.ramp_count; ++k) {
+      if (f.ramps[k].profile > RampProfile::kSCurve) return Status::error(StatusCode::kBadValue, "functions", i);
+    }
   }
   return Status::ok();
 }
@@ -149,6 +167,15 @@ Status validate_config(const MachineConfig& c) {
   std::uint64_t coils_owned = 0;
   status = check_functions(c, coils_owned);
   if (!status.is_ok()) return status;
+  for (std::uint8_t i = 0; i < c.analog_input_count; ++i) {
+    const AnalogInputConfig& ai = c.analog_inputs[i];
+    if (ai.signal > AnalogSignal::kCurrent4To20 || !finite(ai.range_min) || !finite(ai.range_max) ||
+        ai.range_min == ai.range_max)
+      return Status::error(StatusCode::kBadValue, "analog_inputs", i);
+  }
+  for (std::uint8_t i = 0; i < c.prop_output_count; ++i) {
+    if (c.prop_outputs[i].unit > PropUnit::kPercent) return Status::error(StatusCode::kBadValue, "prop_outputs", i);
+  }
 
   const PowerUnitConfig& pu = c.power_unit;
   if (pu.present) {
@@ -163,8 +190,14 @@ Status validate_config(const MachineConfig& c) {
   const OperatorConfig& op = c.operator_panel;
   if (op.estop_input == kNoIndex8 || op.estop_input >= c.digital_input_count)
     return Status::error(StatusCode::kIndexOutOfRange, "operator", 0);
-  if (op.estop_category == StopCategory::kCat2)  // IEC 60204-1: e-stop is category 0 or 1
+  if (op.estop_category > StopCategory::kCat1)  // IEC 60204-1: e-stop is category 0 or 1
     return Status::error(StatusCode::kBadValue, "operator", 0);
+  const SafetyConfig& safety = c.safety;
+  // The scan watchdog and the stale-input check are not optional: a core
+  // that cannot tell a stalled loop or a frozen I/O image keeps driving.
+  if (safety.watchdog_us == 0 || safety.max_digital_age_us == 0 || safety.scan_period_us == 0 ||
+      !category_ok(safety.input_fault_category) || !category_ok(safety.supervision_category))
+    return Status::error(StatusCode::kBadValue, "safety", 0);
   if (!cond_ok(op.reset, c.node_count) || !cond_ok(op.cycle_start, c.node_count) ||
       !cond_ok(op.cycle_stop, c.node_count) || !cond_ok(op.auto_mode, c.node_count) ||
       !cond_ok(op.continuous, c.node_count))
@@ -180,6 +213,8 @@ Status validate_config(const MachineConfig& c) {
     const InterlockConfig& il = c.interlocks[i];
     if (il.condition == kNoCondition || il.condition >= c.node_count || (il.guards & ~all_guards) != 0)
       return Status::error(StatusCode::kIndexOutOfRange, "interlocks", i);
+    if (!category_ok(il.stop_category) || il.kind > InterlockKind::kTrip)
+      return Status::error(StatusCode::kBadValue, "interlocks", i);
   }
   for (std::uint8_t i = 0; i < c.step_count; ++i) {
     const StepConfig& s = c.steps[i];
@@ -190,9 +225,11 @@ Status validate_config(const MachineConfig& c) {
       const FunctionConfig& f = c.functions[a.function];
       if (is_proportional(f.valve) && a.ramp >= f.ramp_count)
         return Status::error(StatusCode::kIndexOutOfRange, "steps", i);
-      if (!(a.speed_percent >= 0.0f && a.speed_percent <= 100.0f))
+      if (!(a.speed_percent >= 0.0f && a.speed_percent <= 100.0f) || a.direction > Direction::kRetract)
         return Status::error(StatusCode::kBadValue, "steps", i);
     }
+    if (s.supervision_us != 0 && s.supervision_us < s.min_time_us)  // would always fault
+      return Status::error(StatusCode::kBadValue, "steps", i);
   }
   for (std::uint8_t i = 0; i < c.transition_count; ++i) {
     const TransitionConfig& t = c.transitions[i];

@@ -50,6 +50,7 @@ class Controller {
     float speed = 0.0f;                        // demanded |speed| 0..1
     StopKind stop = StopKind::kNone;
     bool waiting_reversal = false;
+    bool enable_cut = false;  // a category 0 permissive removed this valve's power
     // Manual: a jog direction that must be seen released before it moves
     // again (set on entering manual and when a permissive stopped it).
     bool rearm_extend = true;
@@ -59,6 +60,9 @@ class Controller {
   void evaluate_conditions(const InputImage& inputs, std::uint32_t dt_us);
   bool node(std::uint16_t index) const { return index != kNoCondition && nodes_[index].value; }
   bool edge(bool value, bool& previous) const;
+  void apply_fault_events(std::uint32_t now_us);
+  bool initial_step_can_start() const;
+  void compute_reach();
   void check_inputs(const InputImage& inputs, std::uint32_t now_us);
   void raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t detail,
                    StopCategory category, std::uint32_t now_us);
@@ -94,6 +98,13 @@ class Controller {
   std::uint32_t pump_elapsed_us_ = 0;
   bool supervision_raised_ = false;
   bool continuous_command_ = false;
+  bool overflow_this_scan_ = false;    // a fault could not be recorded in this scan
+  bool end_cycle_requested_ = false;   // cycle stop seen; survives a hold
+  std::uint8_t frozen_scans_ = 0;      // consecutive scans without time passing
+  std::uint32_t stopping_us_ = 0;      // time spent in kStopping
+  std::uint32_t stopping_scans_ = 0;
+  std::uint32_t stop_limit_us_ = 0;    // longest allowed controlled stop (from the quick-stop times)
+  std::array<std::uint32_t, kMaxSteps> reach_{};  // motions the chain can still demand from each step
   Diagnostics diag_{};
 };
 

@@ -72,6 +72,8 @@ enum class FaultCode : std::uint8_t {
   kPressureNotReady,    ///< power unit did not reach pressure in time
   kConfigInvalid,       ///< the configuration failed the core's own check
   kOutputInvariant,     ///< the output check caught two solenoids of one valve on: all outputs forced off
+  kTimeSource,          ///< the time stamps froze or ran backwards: nothing timed can be trusted
+  kStopTimeout,         ///< a controlled stop did not finish in time: escalated to category 0
 };
 
 enum class AnalogFaultReason : std::uint8_t {
@@ -79,6 +81,7 @@ enum class AnalogFaultReason : std::uint8_t {
   kStale = 1,         ///< older than max_age_us
   kNe43FailLow = 2,   ///< NAMUR NE 43: 3.6 mA or less
   kNe43FailHigh = 3,  ///< NAMUR NE 43: 21 mA or more
+  kNotFinite = 4,     ///< NaN or infinity from the I/O layer
 };
 
 struct Fault {
@@ -99,6 +102,7 @@ enum class EventCode : std::uint8_t {
   kEndOfTravel,        ///< subject: function, detail: direction
   kPowerUnitState,     ///< subject: PowerUnitState
   kTwoHandBlocked,     ///< subject: device; the second hand came too late
+  kStartRefused,       ///< cycle start (or a continuous repeat) while the initial step's transition does not hold
 };
 
 struct Event {
@@ -162,7 +166,7 @@ struct Diagnostics {
   std::uint32_t completed_cycles = 0;
   std::array<Fault, kMaxActiveFaults> faults{};
   std::uint8_t fault_count = 0;
-  bool faults_overflowed = false;
+  bool faults_overflowed = false;  ///< a fault could not be recorded since the last reset (acts as category 0)
   std::uint32_t interlock_ok = 0;       ///< bit per interlock: condition currently true
   std::uint32_t interlock_latched = 0;  ///< bit per trip interlock: latched until reset
   std::array<bool, kMaxTwoHandDevices> two_hand_held{};
