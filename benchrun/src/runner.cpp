@@ -25,6 +25,7 @@ void set_command(core::OperatorCommands& c, const std::string& name, bool on) {
   else if (name == "continuous") c.continuous = on;
   else if (name == "pump_start") c.pump_start = on;
   else if (name == "pump_stop") c.pump_stop = on;
+  else if (name == "stop") c.stop = on;
 }
 
 }  // namespace

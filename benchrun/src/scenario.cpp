@@ -21,7 +21,7 @@ using json = nlohmann::json;
 using machine_file::name_view;
 
 const char* const kCommands[] = {"reset",      "cycle_start", "cycle_stop", "select_auto",
-                                 "continuous", "pump_start",  "pump_stop"};
+                                 "continuous", "pump_start",  "pump_stop",  "stop"};
 
 class Reader {
  public:
@@ -195,7 +195,7 @@ class Reader {
       if (!e["command"].is_object()) error(p, "must be an object of command name to true/false", "Write {\"cycle_stop\": true}.");
       else for (const auto& [name, v] : e["command"].items()) {
         const bool known = std::any_of(std::begin(kCommands), std::end(kCommands), [&](const char* c) { return name == c; });
-        if (!known) { error(p + "/" + name, fmt::format("unknown command '{}'", name), "Commands: reset, cycle_start, cycle_stop, select_auto, continuous, pump_start, pump_stop."); continue; }
+        if (!known) { error(p + "/" + name, fmt::format("unknown command '{}'", name), "Commands: reset, cycle_start, cycle_stop, select_auto, continuous, pump_start, pump_stop, stop."); continue; }
         if (!v.is_boolean()) { error(p + "/" + name, "must be true or false", "Commands are levels: true until set false."); continue; }
         TimelineEvent ev; ev.kind = TimelineEvent::Kind::kCommand; ev.command = name; ev.value = v.get<bool>() ? 1 : 0;
         add(ev, p + "/" + name);

@@ -62,6 +62,7 @@ Status Controller::init(const MachineConfig& config) {
   supervision_raised_ = false;
   overflow_this_scan_ = false;
   end_cycle_requested_ = false;
+  operator_stop_ = false;
   frozen_scans_ = 0;
   stopping_us_ = 0;
   stopping_scans_ = 0;
@@ -405,6 +406,7 @@ void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us
   const bool cycle_start =
       edge(node(c.operator_panel.cycle_start) || cmd.cycle_start, prev_cycle_start_);
   const bool cycle_stop = node(c.operator_panel.cycle_stop) || cmd.cycle_stop;
+  operator_stop_ = node(c.operator_panel.stop) || cmd.stop;
   diag_.auto_selected = node(c.operator_panel.auto_mode) || cmd.select_auto;
 
   if (reset && (diag_.state == MachineState::kFaulted || diag_.state == MachineState::kPowerUp)) {
@@ -424,8 +426,11 @@ void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us
   }
   apply_event(diag_.auto_selected ? MachineEvent::kSelectAuto : MachineEvent::kSelectManual,
               now_us);
+  if (operator_stop_) apply_event(MachineEvent::kStopRequest, now_us);
   if (cycle_start) {
-    if (diag_.state == MachineState::kAutoIdle && !initial_step_can_start()) {
+    if (operator_stop_) {
+      log(now_us, EventCode::kStartRefused, 1, 0);  // the stop overrides every start
+    } else if (diag_.state == MachineState::kAutoIdle && !initial_step_can_start()) {
       // A start the machine cannot act on now is refused, not stored: it
       // would otherwise fire by itself when the conditions come true later.
       log(now_us, EventCode::kStartRefused, 0, 0);
@@ -557,6 +562,8 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       // released and pressed again: a reset never starts motion by itself.
       if (!ext) r.rearm_extend = false;
       if (!ret) r.rearm_retract = false;
+      // The operator stop holds every jog off; each needs a fresh press after.
+      if (operator_stop_) r.rearm_extend = r.rearm_retract = true;
       const bool armed = ext ? !r.rearm_extend : !r.rearm_retract;
       if (ext != ret && armed) {  // both pressed means neither
         want = ext ? Direction::kExtend : Direction::kRetract;
@@ -586,7 +593,7 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       stop = worst_category() == StopCategory::kCat0 ? StopKind::kImmediate : StopKind::kQuick;
       want = Direction::kNone;
     }
-    if (diag_.state == MachineState::kAutoHeld) stop = StopKind::kQuick;
+    if (diag_.state == MachineState::kAutoHeld || operator_stop_) stop = StopKind::kQuick;
     const std::uint32_t bit = motion_bit(i, want);
     diag_.functions[i].blocked = false;
     if (want != Direction::kNone && ((blocked_motions_ & bit) || !pressure_available)) {

@@ -200,7 +200,7 @@ Status validate_config(const MachineConfig& c) {
     return Status::error(StatusCode::kBadValue, "safety", 0);
   if (!cond_ok(op.reset, c.node_count) || !cond_ok(op.cycle_start, c.node_count) ||
       !cond_ok(op.cycle_stop, c.node_count) || !cond_ok(op.auto_mode, c.node_count) ||
-      !cond_ok(op.continuous, c.node_count))
+      !cond_ok(op.continuous, c.node_count) || !cond_ok(op.stop, c.node_count))
     return Status::error(StatusCode::kIndexOutOfRange, "operator", 0);
 
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {

@@ -1358,7 +1358,7 @@ void Loader::load_operator(const json& doc) {
   if (!expect_object(*op, "/operator")) return;
   const std::string path = "/operator";
   check_keys(*op, path, {"emergency_stop", "emergency_stop_category", "reset", "cycle_start", "cycle_stop",
-                         "auto_mode", "continuous"});
+                         "auto_mode", "continuous", "stop"});
   auto& o = cfg_.operator_panel;
   o.estop_input = read_ref(*op, path, "emergency_stop");
   if (const auto cat = read_number(*op, path, "emergency_stop_category")) {
@@ -1369,6 +1369,7 @@ void Loader::load_operator(const json& doc) {
   o.cycle_stop = read_condition(*op, path, "cycle_stop");
   o.auto_mode = read_condition(*op, path, "auto_mode");
   o.continuous = read_condition(*op, path, "continuous");
+  o.stop = read_condition(*op, path, "stop");
 }
 
 void Loader::load_interlocks(const json& doc) {

@@ -103,6 +103,8 @@ constexpr std::array kTable = {
             "True selects automatic mode, false manual.", ""},
   Parameter{"/operator/continuous", T::kCondition, "", kOpt, "", kNoLimit, kNoLimit, "",
             "True: cycle continuously; false: single cycle.", ""},
+  Parameter{"/operator/stop", T::kCondition, "", kOpt, "", kNoLimit, kNoLimit, "",
+            "True stops motion under control (category 2): a cycle holds, jogs stop, no start is accepted.", ""},
 
   Parameter{"/two_hand/*/name", T::kName, "", kReq, "", kNoLimit, kNoLimit, "",
             "Name of the two-hand control device.", ""},

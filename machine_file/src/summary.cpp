@@ -233,7 +233,8 @@ std::string summarize(const core::MachineConfig& c) {
   const auto& op = c.operator_panel;
   out << fmt::format("Operator: emergency stop {} (normally closed, stop category {})\n", din_text(c, op.estop_input),
                      static_cast<int>(op.estop_category));
-  out << fmt::format("  reset {}; cycle start {}; cycle stop {}\n", cond(op.reset), cond(op.cycle_start), cond(op.cycle_stop));
+  out << fmt::format("  reset {}; cycle start {}; cycle stop {}; stop {}\n", cond(op.reset), cond(op.cycle_start),
+                     cond(op.cycle_stop), cond(op.stop));
   out << fmt::format("  automatic when {}; continuous when {}\n", cond(op.auto_mode), cond(op.continuous));
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
     const auto& th = c.two_hand[i];

@@ -47,6 +47,9 @@ const Row kRows[] = {
   {S::kAutoHeld, E::kReset, S::kAutoHeld, false, "reset does not resume a held cycle"},
   {S::kAutoHeld, E::kSelectManual, S::kManual, true, "selector to manual"},
   {S::kAutoHeld, E::kCycleComplete, S::kAutoHeld, false, "a held chain does not advance"},
+  {S::kAutoCycle, E::kStopRequest, S::kAutoHeld, true, "the operator stop holds a running cycle"},
+  {S::kAutoEndCycle, E::kStopRequest, S::kAutoHeld, true, "also while it ends"},
+  {S::kManual, E::kStopRequest, S::kManual, false, "in manual the stop acts on the jogs, not the state"},
   {S::kFaulted, E::kCycleStart, S::kFaulted, false, "faulted ignores cycle start"},
   {S::kFaulted, E::kSelectAuto, S::kFaulted, false, "faulted ignores the selector"},
 };

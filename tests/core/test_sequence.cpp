@@ -223,3 +223,54 @@ TEST(Sequence, EventLogRecordsStepChangesWithTimes) {
 
 }  // namespace
 }  // namespace spoolstep::core
+
+namespace spoolstep::core {
+namespace {
+
+using namespace testing;
+
+// IEC 60204-1 9.2.5.3 (from memory): a stop function that overrides starts.
+TEST(OperatorStop, HoldsTheCycleAndOnlyANewStartResumes) {
+  Rig rig(make_test_machine());
+  rig.arm(true);
+  rig.start_cycle_to_press_step();
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(200);
+  ASSERT_GT(rig.out.prop[kPressYa].value, 0.0f);
+  rig.in.commands.stop = true;
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld);
+  rig.run_ms(100);
+  EXPECT_TRUE(no_valve_driven(rig.out)) << "controlled stop completed";
+  EXPECT_EQ(rig.diag().power_unit, PowerUnitState::kReady) << "category 2: power stays";
+  rig.press(kStart);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld) << "no start while the stop is pressed";
+  rig.in.commands.stop = false;
+  rig.run_ms(100);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld) << "releasing the stop is not a start";
+  rig.press(kStart);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
+  EXPECT_EQ(rig.diag().active_step, kPressStep);
+}
+
+TEST(OperatorStop, StopsAJogThatThenNeedsAFreshPress) {
+  Rig rig(make_test_machine());
+  rig.arm(false);
+  rig.in.digital[kJogClampExt] = true;
+  rig.run_ms(5);
+  ASSERT_TRUE(rig.out.coils[kClampY1]);
+  rig.in.commands.stop = true;
+  rig.scan();
+  EXPECT_FALSE(rig.out.coils[kClampY1]);
+  rig.in.commands.stop = false;
+  rig.run_ms(20);
+  EXPECT_FALSE(rig.out.coils[kClampY1]) << "the jog still held does not restart";
+  rig.in.digital[kJogClampExt] = false;
+  rig.scan();
+  rig.in.digital[kJogClampExt] = true;
+  rig.scan();
+  EXPECT_TRUE(rig.out.coils[kClampY1]);
+}
+
+}  // namespace
+}  // namespace spoolstep::core

@@ -51,7 +51,7 @@ TEST_F(PressCell, TheCoreAcceptsTheLoadedConfiguration) {
 
 TEST_F(PressCell, CountsMatchTheFile) {
   ASSERT_TRUE(result_->ok());
-  EXPECT_EQ(config().digital_input_count, 18);
+  EXPECT_EQ(config().digital_input_count, 19);
   EXPECT_EQ(config().analog_input_count, 4);
   EXPECT_EQ(config().coil_count, 5);
   EXPECT_EQ(config().prop_output_count, 2);

@@ -226,6 +226,10 @@ struct OperatorConfig {
   std::uint16_t cycle_stop = kNoCondition;   ///< true requests stop at end of cycle
   std::uint16_t auto_mode = kNoCondition;    ///< true selects automatic, false manual
   std::uint16_t continuous = kNoCondition;   ///< true: continuous cycling; false: single cycle
+  /// True requests a stop (IEC 60204-1 stop function, here category 2:
+  /// controlled, power kept): an automatic cycle holds, jogs stop, and no
+  /// start is accepted while it is true. Overrides every start.
+  std::uint16_t stop = kNoCondition;
 };
 
 struct StepAction {

@@ -100,6 +100,7 @@ class Controller {
   bool continuous_command_ = false;
   bool overflow_this_scan_ = false;    // a fault could not be recorded in this scan
   bool end_cycle_requested_ = false;   // cycle stop seen; survives a hold
+  bool operator_stop_ = false;         // the operator stop is pressed in this scan
   std::uint8_t frozen_scans_ = 0;      // consecutive scans without time passing
   std::uint32_t stopping_us_ = 0;      // time spent in kStopping
   std::uint32_t stopping_scans_ = 0;

@@ -26,6 +26,7 @@ struct OperatorCommands {
   bool continuous = false;
   bool pump_start = false;
   bool pump_stop = false;
+  bool stop = false;  ///< operator stop (category 2), see OperatorConfig::stop
   std::array<Direction, kMaxFunctions> jog{};  ///< hold-to-run per function (manual mode)
 };
 

@@ -22,8 +22,9 @@ enum class MachineEvent : std::uint8_t {
   kCycleComplete,       ///< the chain is back at its initial step, single cycle
   kCycleRepeat,         ///< the chain is back at its initial step, continuous
   kPermissiveHold,      ///< a permissive blocked a motion the chain demanded
+  kStopRequest,         ///< the operator stop is pressed (level)
 };
-inline constexpr std::size_t kMachineEventCount = 11;
+inline constexpr std::size_t kMachineEventCount = 12;
 
 struct StateTransition {
   MachineState from;
@@ -50,6 +51,8 @@ inline constexpr StateTransition kStateTable[] = {
   {MachineState::kAutoCycle,    MachineEvent::kCycleComplete,   MachineState::kAutoIdle},
   {MachineState::kAutoCycle,    MachineEvent::kCycleRepeat,     MachineState::kAutoCycle},
   {MachineState::kAutoCycle,    MachineEvent::kPermissiveHold,  MachineState::kAutoHeld},
+  {MachineState::kAutoCycle,    MachineEvent::kStopRequest,     MachineState::kAutoHeld},
+  {MachineState::kAutoEndCycle, MachineEvent::kStopRequest,     MachineState::kAutoHeld},
   {MachineState::kAutoEndCycle, MachineEvent::kFaultImmediate,  MachineState::kFaulted},
   {MachineState::kAutoEndCycle, MachineEvent::kFaultControlled, MachineState::kStopping},
   {MachineState::kAutoEndCycle, MachineEvent::kSelectManual,    MachineState::kManual},

@@ -25,6 +25,7 @@ inline constexpr std::uint32_t kCmdSelectAuto = 1u << 3;
 inline constexpr std::uint32_t kCmdContinuous = 1u << 4;
 inline constexpr std::uint32_t kCmdPumpStart = 1u << 5;
 inline constexpr std::uint32_t kCmdPumpStop = 1u << 6;
+inline constexpr std::uint32_t kCmdStop = 1u << 7;
 inline constexpr std::uint32_t kCmdJogShift = 8;  ///< then 2 bits per function: 1 extend, 2 retract
 
 /// `repeat` scans, each `period_us` after the previous one, with these inputs.
@@ -68,6 +69,7 @@ inline void apply_frame(const GoldenFrame& frame, core::InputImage& in) {
   c.select_auto = (frame.commands & kCmdSelectAuto) != 0;
   c.continuous = (frame.commands & kCmdContinuous) != 0;
   c.pump_start = (frame.commands & kCmdPumpStart) != 0;
+  c.stop = (frame.commands & kCmdStop) != 0;
   c.pump_stop = (frame.commands & kCmdPumpStop) != 0;
   for (std::size_t f = 0; f < core::kMaxFunctions; ++f) {
     const std::uint32_t jog = (frame.commands >> (kCmdJogShift + 2 * f)) & 3u;
@@ -92,7 +94,7 @@ inline GoldenFrame frame_of(const core::InputImage& in) {
   frame.commands = (c.reset ? kCmdReset : 0u) | (c.cycle_start ? kCmdCycleStart : 0u) |
                    (c.cycle_stop ? kCmdCycleStop : 0u) | (c.select_auto ? kCmdSelectAuto : 0u) |
                    (c.continuous ? kCmdContinuous : 0u) | (c.pump_start ? kCmdPumpStart : 0u) |
-                   (c.pump_stop ? kCmdPumpStop : 0u);
+                   (c.pump_stop ? kCmdPumpStop : 0u) | (c.stop ? kCmdStop : 0u);
   for (std::size_t f = 0; f < core::kMaxFunctions; ++f) {
     const std::uint32_t jog = c.jog[f] == core::Direction::kExtend ? 1u : c.jog[f] == core::Direction::kRetract ? 2u : 0u;
     frame.commands |= jog << (kCmdJogShift + 2 * f);
