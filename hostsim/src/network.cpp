@@ -78,15 +78,49 @@ std::vector<double> initial_state(const Network& net, const StateLayout& layout)
   return y;
 }
 
+namespace {
+
+// Absolute pressure below which the cavitation transform applies: where the
+// air term alone would give kCavitationBulkModulusPa.
+double cavitation_floor_pa(const OilModel& oil) {
+  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  return std::sqrt(air * oil.atmospheric_pa * kCavitationBulkModulusPa);
+}
+
+}  // namespace
+
 double effective_bulk_modulus(const OilModel& oil, double p_pa) {
   // 1/beta_e = 1/beta_oil + (V_air/V)/beta_air with isothermal air,
   // beta_air = p_abs and V_air/V = a * p_atm / p_abs
   // (check-values 4.3a, formula [SRC] "Equivalent bulk modulus", eq. 6.30).
   const double air = std::max(oil.air_fraction, kMinAirFraction);
-  // Below kMinAbsolutePressure the modulus is held, so a node that
-  // overshoots into the cavitation region still recovers.
-  const double p_abs = std::max(p_pa + oil.atmospheric_pa, kMinAbsolutePressurePa);
+  const double p_abs = std::max(p_pa + oil.atmospheric_pa, 1e-300);
   return 1.0 / (1.0 / oil.bulk_modulus_pa + air * oil.atmospheric_pa / (p_abs * p_abs));
+}
+
+double physical_pressure(const OilModel& oil, double p_state_pa) {
+  // Below the floor f the state maps to p_abs = f^2 / (2 f - s): C1 at f,
+  // never below absolute zero, and the state falls linearly with the
+  // cavity (free gas) volume, beta_cav per unit volume fraction, so it stays
+  // well scaled while a node cavitates. The rate of the state is divided by
+  // dp/ds, so the free-air law itself is integrated unchanged (our own
+  // regularisation).
+  const double f = cavitation_floor_pa(oil);
+  const double s_abs = p_state_pa + oil.atmospheric_pa;
+  if (s_abs >= f) return p_state_pa;
+  return f * f / (2.0 * f - s_abs) - oil.atmospheric_pa;
+}
+
+double pressure_state_rate(const OilModel& oil, double p_state_pa, double volume_m3, double net_flow_m3_s) {
+  // Pressure build-up dp/dt = beta/V (Q_in - dV/dt) (check-values 4.13 [SRC]).
+  const double f = cavitation_floor_pa(oil);
+  const double s_abs = p_state_pa + oil.atmospheric_pa;
+  if (s_abs >= f) return effective_bulk_modulus(oil, p_state_pa) / volume_m3 * net_flow_m3_s;
+  // ds/dt = (dp/dt) / (dp/ds), dp/ds = p_abs^2 / f^2, written so that it
+  // stays finite as p_abs -> 0.
+  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  const double p_abs = f * f / (2.0 * f - s_abs);
+  return net_flow_m3_s / volume_m3 * f * f / (p_abs * p_abs / oil.bulk_modulus_pa + air * oil.atmospheric_pa);
 }
 
 double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m3,
@@ -123,7 +157,7 @@ void node_pressures(const Network& net, const StateLayout& layout, const double*
   p_pa.resize(net.nodes.size());
   for (std::size_t i = 0; i < net.nodes.size(); ++i) {
     const int k = layout.node_state[i];
-    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : y[k] * kPressureScale;
+    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : physical_pressure(net.oil, y[k] * kPressureScale);
   }
 }
 
@@ -257,10 +291,9 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
     const int k = L.node_state[i];
     if (k < 0) continue;
     const double vol = node_volume(net, net.nodes[i], y, L);
-    const double beta = effective_bulk_modulus(net.oil, p_[i]);
-    const double dp = beta / vol * (q_net_[i] - dvdt_[i]);
-    dydt[k] = dp / kPressureScale;
-    compressed += vol / beta * dp;
+    dydt[k] = pressure_state_rate(net.oil, y[k] * kPressureScale, vol, q_net_[i] - dvdt_[i]) / kPressureScale;
+    // V/beta dp/dt equals the net inflow by the continuity equation.
+    compressed += q_net_[i] - dvdt_[i];
   }
 
   for (std::size_t s = 0; s < net.spools.size(); ++s) {

@@ -49,3 +49,15 @@ TEST(Scratch, StepsPerWindow) {
     last = s.accepted; lastrej = s.rejected; lastjac = s.jacobians;
   }
 }
+#include "rig.hpp"
+TEST(Scratch, Ext) {
+  using namespace spoolstep;
+  auto rig = hostsim::test::single_cylinder(core::ValveKind::kSolenoid43SpringCentred, core::ValveCentre::kClosed);
+  if (const char* m = std::getenv("METHOD")) rig.plant["solver"] = {{"method", m}, {"rtol", std::atof(std::getenv("RTOL"))}, {"atol", std::atof(std::getenv("ATOL"))}};
+  auto p = hostsim::test::build(rig);
+  ASSERT_TRUE(p->set_spool_target("f", 1.0));
+  for (int i = 0; i < 600; ++i) {
+    p->advance(1e-3);
+    if (i % 20 == 0) std::printf("sA %.4f t %.3f x %.5f v %.4f pA %.2f pB %.2f pump %.2f spool %.3f acc %zu rej %zu\n", p->state()[static_cast<std::size_t>(p->layout().node_state[2])], p->time_s(), p->cylinder_position("cyl"), p->cylinder_velocity("cyl"), p->node_pressure("cyl.A")/1e5, p->node_pressure("cyl.B")/1e5, p->node_pressure("pump")/1e5, p->spool_position("f"), p->solver_stats().accepted, p->solver_stats().rejected);
+  }
+}
