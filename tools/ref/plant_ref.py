@@ -300,6 +300,10 @@ def main(argv):
         filled[idx] = True
         y = sol.y[:, -1]
     wall = time.perf_counter() - start
+    # Node columns report the physical pressure, not the pressure state.
+    for i, k in enumerate(model.node_state):
+        if k >= 0:
+            rows[:, k] = [model.physical(v * PRESSURE_SCALE) / PRESSURE_SCALE for v in rows[:, k]]
     if not filled.all():
         print("plant_ref: internal error, %d samples not filled" % int((~filled).sum()), file=sys.stderr)
         return 4
