@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <vector>
 
 #include "rig.hpp"
@@ -193,12 +194,14 @@ TEST(PlantDynamics, ClosedCentreStopPeakMatchesHydraulicSpring) {
   // dp = v0 sqrt(beta m / V_B) = 58.58 bar, V_B = 5.2484e-4 m^3
   // (check-values 4.9, 5.10 [DERIVED]); our V_B has 0.1 cm^3 dead volume more.
   const double peak = stop_peak_bar(ValveCentre::kClosed);
+  std::printf("[ figure   ] closed-centre stop peak %.2f bar (hydraulic spring 58.58 bar)\n", peak);
   EXPECT_NEAR(peak, 58.58, 58.58 * 0.05);
 }
 
 TEST(PlantDynamics, BleedCentreStopPeakIsLowerThanClosedCentre) {
   const double closed = stop_peak_bar(ValveCentre::kClosed);
   const double bleed = stop_peak_bar(ValveCentre::kBleed);
+  std::printf("[ figure   ] stop peak: closed centre %.2f bar, bleed centre (1 mm^2) %.2f bar\n", closed, bleed);
   EXPECT_LT(bleed, 0.9 * closed);
   EXPECT_GT(bleed, 1.0);
 }
@@ -230,6 +233,7 @@ TEST(PlantDynamics, OscillationAfterLoadStepIsAtHydraulicNaturalFrequency) {
   }
   ASSERT_GE(up.size(), 10u);
   const double f = static_cast<double>(up.size() - 1) / (up.back() - up.front());
+  std::printf("[ figure   ] oscillation %.3f Hz (hydraulic natural frequency 38.470 Hz)\n", f);
   EXPECT_NEAR(f, 38.470, 38.470 * 0.05);
   EXPECT_NEAR(f, 38.470, 38.470 * 0.01) << "looser than expected, though within the 5 % limit";
 }
@@ -333,6 +337,42 @@ TEST(PlantEndStops, FullSpeedIntoTheEndStopStaysBounded) {
   EXPECT_LT(p->cylinder_position("cyl"), 0.5001);
   EXPECT_NEAR(p->cylinder_velocity("cyl"), 0.0, 1e-4);
   EXPECT_NEAR(p->node_pressure("cyl.A"), 250e5 + 0.1 * 30 * 1e5, 1e5);
+}
+
+}  // namespace
+}  // namespace spoolstep::hostsim::test
+
+namespace spoolstep::hostsim::test {
+namespace {
+
+// The purpose-written ROS2 (default) and Boost.Odeint's rosenbrock4 agree on
+// the demo press cycle: two independent integrators of the same equations.
+TEST(PlantSolvers, Ros2AgreesWithOdeintRosenbrock4OnThePressCycle) {
+  Trace traces[2];
+  const char* methods[2] = {"ros2", "rosenbrock4"};
+  for (int m = 0; m < 2; ++m) {
+    nlohmann::json plant = demo_plant_json();
+    plant["solver"] = {{"method", methods[m]}};
+    auto p = build(Rig{demo_machine(), plant});
+    ASSERT_TRUE(p);
+    ASSERT_TRUE(run_open_loop(*p, demo_press_cycle(), 1e-3, traces[m]));
+  }
+  ASSERT_EQ(traces[0].rows.size(), traces[1].rows.size());
+  double worst_x = 0.0, worst_p = 0.0;
+  for (const char* col : {"press_cyl.x_mm", "clamp_cyl.x_mm"}) {
+    const auto a = traces[0].series(col), b = traces[1].series(col);
+    for (std::size_t i = 0; i < a.size(); ++i) worst_x = std::max(worst_x, std::fabs(a[i] - b[i]));
+  }
+  for (const char* col : {"pump.p_bar", "press_cyl.A.p_bar", "clamp_cyl.A.p_bar"}) {
+    const auto a = traces[0].series(col), b = traces[1].series(col);
+    double sq = 0.0;
+    for (std::size_t i = 0; i < a.size(); ++i) sq += (a[i] - b[i]) * (a[i] - b[i]);
+    worst_p = std::max(worst_p, std::sqrt(sq / static_cast<double>(a.size())));
+  }
+  std::printf("[ figure   ] ros2 vs rosenbrock4: max position difference %.4f mm, worst pressure RMS %.3f bar\n",
+              worst_x, worst_p);
+  EXPECT_LT(worst_x, 0.5);
+  EXPECT_LT(worst_p, 1.8);  // 1 % of the 180 bar relief setting
 }
 
 }  // namespace

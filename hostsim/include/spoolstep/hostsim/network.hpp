@@ -226,6 +226,8 @@ class NetworkRhs {
  private:
   const Network* net_;
   const StateLayout* layout_;
+  double floor_pa_ = 0.0;         ///< cavitation floor (absolute), computed once
+  std::vector<double> flow_k_;    ///< per element: Cd sqrt(2/rho)
   std::vector<double> p_;
   std::vector<double> q_net_;
   std::vector<double> dvdt_;
