@@ -224,11 +224,11 @@ class Ros2 final : public Integrator {
 
  private:
   // Tuned on the demo press cycle against the Radau reference
-  // (docs/plant-model.md): a Jacobian older than 10 steps is refreshed, a
+  // (docs/plant-model.md): a Jacobian older than 20 steps is refreshed, a
   // factorisation is reused while the step stays within 10 % of the step it
   // was made for (any W keeps the order; the margin keeps the stability),
   // and the step grows by at most 2x per step.
-  static constexpr int kMaxJacobianAge = 10;
+  static constexpr int kMaxJacobianAge = 20;
   static constexpr double kLuLow = 0.9;
   static constexpr double kLuHigh = 1.1;
   static constexpr double kMaxGrowth = 2.0;
