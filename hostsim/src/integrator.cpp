@@ -157,7 +157,7 @@ class Ros2 final : public Integrator {
  public:
   Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
       : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
-        lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), ynew_(n_) {}
+        lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
   bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                const std::function<void(double, const std::vector<double>&)>& on_step) override {
@@ -174,10 +174,26 @@ class Ros2 final : public Integrator {
       }
       if (!(dt >= kLuLow * h_lu_ && dt <= kLuHigh * h_lu_)) factor(dt);
       const double hs = dt;
-      eval_.rhs(in, t, y.data(), f_.data());
-      solve(f_, k1_);
+      eval_.rhs(in, t, y.data(), f0_.data());
+      solve(f0_, k1_);
       for (std::size_t i = 0; i < n_; ++i) y1_[i] = y[i] + hs * k1_[i];
       eval_.rhs(in, t + hs, y1_.data(), f_.data());
+      // Jacobian check: f(y + h k1) - f(y) - h J k1 is what the reused J
+      // misses along this step; times gamma h it is the error the stale J
+      // puts into the step. The error estimate cannot see it (both
+      // solutions share W), so a reused J that misses by more than the
+      // tolerance is refreshed and the step redone.
+      double jac_miss = 0.0;
+      if (jac_age_ > 0) {
+        for (std::size_t i = 0; i < n_; ++i) {
+          const double* ji = &jac_[i * n_];
+          double jk = 0.0;
+          for (std::size_t j = 0; j < n_; ++j) jk += ji[j] * k1_[j];
+          const double miss = kGamma * hs * (f_[i] - f0_[i] - hs * jk);
+          const double sc = atol_ + rtol_ * std::fabs(y[i]);
+          jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
+        }
+      }
       for (std::size_t i = 0; i < n_; ++i) f_[i] -= 2.0 * k1_[i];
       solve(f_, k2_);
       double err = 0.0;
@@ -187,6 +203,12 @@ class Ros2 final : public Integrator {
         const double sc = atol_ + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
         err = std::max(err, std::fabs(e) / sc);
       }
+      if (jac_miss > kJacobianMissReject || !std::isfinite(jac_miss)) {
+        ++eval_.stats.rejected;
+        jac_age_ = -1;  // same step again with a fresh Jacobian
+        continue;
+      }
+      if (jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
       if (err <= 1.0 && std::isfinite(err)) {
         ++eval_.stats.accepted;
         std::copy(ynew_.begin(), ynew_.end(), y.begin());
@@ -232,6 +254,8 @@ class Ros2 final : public Integrator {
   static constexpr double kLuLow = 0.9;
   static constexpr double kLuHigh = 1.1;
   static constexpr double kMaxGrowth = 2.0;
+  static constexpr double kJacobianMissReject = 3.0;   // in units of the tolerance
+  static constexpr double kJacobianMissRefresh = 1.0;
   static constexpr double kGamma = 1.0 + 0.70710678118654752440;
 
   void factor(double h) {
@@ -321,7 +345,7 @@ class Ros2 final : public Integrator {
   std::vector<std::size_t> piv_;
   std::vector<std::size_t> l_start_, u_start_, l_col_, u_col_;
   std::vector<double> l_val_, u_val_, diag_inv_;
-  std::vector<double> k1_, k2_, y1_, f_, ynew_;
+  std::vector<double> k1_, k2_, y1_, f_, f0_, ynew_;
   double h_ = 0.0;
   double h_lu_ = 0.0;
   int jac_age_ = -1;
