@@ -2,6 +2,8 @@
 // fix; unknown fields are errors; nothing is built when anything is wrong.
 #include <gtest/gtest.h>
 
+#include <fstream>
+#include <sstream>
 #include <string>
 
 #include "rig.hpp"
@@ -116,6 +118,21 @@ TEST(PlantConfig, WrongJsonTypesNeverThrow) {
 TEST(PlantConfig, ParameterTableRendersForTheDocs) {
   const std::string table = plant_parameter_table_markdown();
   EXPECT_NE(table.find("| valves[] | overlap_percent | number | % | 0 | 0 .. 45 |"), std::string::npos) << table;
+}
+
+TEST(PlantConfig, DocsCarryTheCurrentParameterTable) {
+  std::ifstream in(std::string(SPOOLSTEP_SOURCE_DIR) + "/docs/plant-model.md");
+  ASSERT_TRUE(in) << "docs/plant-model.md not found";
+  std::stringstream doc;
+  doc << in.rdbuf();
+  const std::string text = doc.str();
+  const std::string begin = "<!-- parameter-table:begin -->\n";
+  const auto b = text.find(begin);
+  const auto e = text.find("<!-- parameter-table:end -->");
+  ASSERT_NE(b, std::string::npos);
+  ASSERT_NE(e, std::string::npos);
+  EXPECT_EQ(text.substr(b + begin.size(), e - b - begin.size()), plant_parameter_table_markdown())
+      << "regenerate the table in docs/plant-model.md from plant_parameter_table_markdown()";
 }
 
 }  // namespace
