@@ -86,8 +86,8 @@ class OdeintRosenbrock4 final : public Integrator {
   OdeintRosenbrock4(const Network& net, const StateLayout& layout, const SolverSettings& s)
       : eval_(net, layout), controller_(s.atol, s.rtol), x_(layout.size), dfdt_(layout.size) {}
 
-  bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
-               const std::function<void(double, const std::vector<double>&)>& on_step) override {
+  bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+                  const std::function<void(double, const std::vector<double>&)>& on_step) override {
     in_ = &in;
     std::copy(y.begin(), y.end(), x_.begin());
     auto system = std::make_pair(Rhs{this}, Jac{this});
@@ -120,9 +120,9 @@ class OdeintRosenbrock4 final : public Integrator {
     std::copy(x_.begin(), x_.end(), y.begin());
     return true;
   }
-  const SolverStats& stats() const override { return eval_.stats; }
-  void restart() override { h_ = 0.0; }
-  void inputs_changed() override {}  // a fresh Jacobian every step anyway
+  const SolverStats& do_stats() const override { return eval_.stats; }
+  void do_restart() override { h_ = 0.0; }
+  void do_inputs_changed() override {}  // a fresh Jacobian every step anyway
 
  private:
   struct Rhs {
@@ -159,8 +159,8 @@ class Ros2 final : public Integrator {
       : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
         lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
-  bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
-               const std::function<void(double, const std::vector<double>&)>& on_step) override {
+  bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+                  const std::function<void(double, const std::vector<double>&)>& on_step) override {
     double h = h_ > 0.0 ? h_ : kFirstStep;
     while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
       const double remaining = t_end - t;
@@ -235,14 +235,14 @@ class Ros2 final : public Integrator {
     h_ = h;
     return true;
   }
-  const SolverStats& stats() const override { return eval_.stats; }
-  void restart() override {
+  const SolverStats& do_stats() const override { return eval_.stats; }
+  void do_restart() override {
     h_ = 0.0;
     jac_age_ = -1;
   }
   // A stale Jacobian can hide errors from the estimate (a spool whose rate
   // saturates after a command step would crawl), so inputs changes refresh it.
-  void inputs_changed() override { jac_age_ = -1; }
+  void do_inputs_changed() override { jac_age_ = -1; }
 
  private:
   // Tuned on the demo press cycle against the Radau reference
