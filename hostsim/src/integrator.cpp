@@ -171,6 +171,19 @@ class Ros2 final : public Integrator {
                        nullptr);
         jac_age_ = 0;
         h_lu_ = 0.0;
+        // Nonzeros of J by row, for the Jacobian check's product J k1.
+        j_start_.assign(1, 0);
+        j_col_.clear();
+        j_val_.clear();
+        for (std::size_t r = 0; r < n_; ++r) {
+          for (std::size_t c = 0; c < n_; ++c) {
+            if (jac_[r * n_ + c] != 0.0) {
+              j_col_.push_back(c);
+              j_val_.push_back(jac_[r * n_ + c]);
+            }
+          }
+          j_start_.push_back(j_col_.size());
+        }
       }
       if (!(dt >= kLuLow * h_lu_ && dt <= kLuHigh * h_lu_)) factor(dt);
       const double hs = dt;
@@ -186,9 +199,8 @@ class Ros2 final : public Integrator {
       double jac_miss = 0.0;
       if (jac_age_ > 0) {
         for (std::size_t i = 0; i < n_; ++i) {
-          const double* ji = &jac_[i * n_];
           double jk = 0.0;
-          for (std::size_t j = 0; j < n_; ++j) jk += ji[j] * k1_[j];
+          for (std::size_t q = j_start_[i]; q < j_start_[i + 1]; ++q) jk += j_val_[q] * k1_[j_col_[q]];
           const double miss = kGamma * hs * (f_[i] - f0_[i] - hs * jk);
           const double sc = atol_ + rtol_ * std::fabs(y[i]);
           jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
@@ -343,8 +355,8 @@ class Ros2 final : public Integrator {
   double rtol_, atol_;
   std::vector<double> jac_, lu_;
   std::vector<std::size_t> piv_;
-  std::vector<std::size_t> l_start_, u_start_, l_col_, u_col_;
-  std::vector<double> l_val_, u_val_, diag_inv_;
+  std::vector<std::size_t> l_start_, u_start_, l_col_, u_col_, j_start_, j_col_;
+  std::vector<double> l_val_, u_val_, diag_inv_, j_val_;
   std::vector<double> k1_, k2_, y1_, f_, f0_, ynew_;
   double h_ = 0.0;
   double h_lu_ = 0.0;
