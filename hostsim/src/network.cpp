@@ -78,15 +78,68 @@ std::vector<double> initial_state(const Network& net, const StateLayout& layout)
   return y;
 }
 
+namespace {
+
+// Absolute pressure below which the cavitation transform applies: where the
+// air term alone would give kCavitationBulkModulusPa.
+double cavitation_floor_pa(const OilModel& oil) {
+  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  return std::sqrt(air * oil.atmospheric_pa * kCavitationBulkModulusPa);
+}
+
+}  // namespace
+
 double effective_bulk_modulus(const OilModel& oil, double p_pa) {
   // 1/beta_e = 1/beta_oil + (V_air/V)/beta_air with isothermal air,
   // beta_air = p_abs and V_air/V = a * p_atm / p_abs
   // (check-values 4.3a, formula [SRC] "Equivalent bulk modulus", eq. 6.30).
   const double air = std::max(oil.air_fraction, kMinAirFraction);
-  // Below kMinAbsolutePressure the modulus is held, so a node that
-  // overshoots into the cavitation region still recovers.
-  const double p_abs = std::max(p_pa + oil.atmospheric_pa, kMinAbsolutePressurePa);
+  const double p_abs = std::max(p_pa + oil.atmospheric_pa, 1e-300);
   return 1.0 / (1.0 / oil.bulk_modulus_pa + air * oil.atmospheric_pa / (p_abs * p_abs));
+}
+
+namespace {
+
+double physical_pressure_at(const OilModel& oil, double p_state_pa, double f) {
+  const double s_abs = p_state_pa + oil.atmospheric_pa;
+  if (s_abs >= f) return p_state_pa;
+  return f * f / (2.0 * f - s_abs) - oil.atmospheric_pa;
+}
+
+double pressure_state_rate_at(const OilModel& oil, double p_state_pa, double volume_m3, double net_flow_m3_s,
+                              double f) {
+  const double s_abs = p_state_pa + oil.atmospheric_pa;
+  if (s_abs >= f) return effective_bulk_modulus(oil, p_state_pa) / volume_m3 * net_flow_m3_s;
+  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  const double p_abs = f * f / (2.0 * f - s_abs);
+  return net_flow_m3_s / volume_m3 * f * f / (p_abs * p_abs / oil.bulk_modulus_pa + air * oil.atmospheric_pa);
+}
+
+double orifice_flow_k(double k, double area_m2, double dp_pa, double transition_pa) {
+  const double ka = k * area_m2;
+  const double a = std::fabs(dp_pa);
+  if (a >= transition_pa) return dp_pa > 0.0 ? ka * std::sqrt(a) : -ka * std::sqrt(a);
+  const double st = std::sqrt(transition_pa);
+  return ka * (1.25 * dp_pa / st - 0.25 * dp_pa * dp_pa * dp_pa / (transition_pa * transition_pa * st));
+}
+
+}  // namespace
+
+double physical_pressure(const OilModel& oil, double p_state_pa) {
+  // Below the floor f the state maps to p_abs = f^2 / (2 f - s): C1 at f,
+  // never below absolute zero, and the state falls linearly with the
+  // cavity (free gas) volume, beta_cav per unit volume fraction, so it stays
+  // well scaled while a node cavitates. The rate of the state is divided by
+  // dp/ds, so the free-air law itself is integrated unchanged (our own
+  // regularisation).
+  return physical_pressure_at(oil, p_state_pa, cavitation_floor_pa(oil));
+}
+
+double pressure_state_rate(const OilModel& oil, double p_state_pa, double volume_m3, double net_flow_m3_s) {
+  // Pressure build-up dp/dt = beta/V (Q_in - dV/dt) (check-values 4.13 [SRC]).
+  // Below the floor: ds/dt = (dp/dt) / (dp/ds), dp/ds = p_abs^2 / f^2,
+  // written so that it stays finite as p_abs -> 0.
+  return pressure_state_rate_at(oil, p_state_pa, volume_m3, net_flow_m3_s, cavitation_floor_pa(oil));
 }
 
 double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m3,
@@ -94,11 +147,7 @@ double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m
   // Orifice equation Q = Cd A sqrt(2 dp / rho) (check-values 4.1, [SRC] Rabie
   // eq. 2.36). Below the transition: a + b dp^3 matched in value and slope
   // at dp = transition (our own regularisation).
-  const double k = cd * area_m2 * std::sqrt(2.0 / density_kg_m3);
-  const double a = std::fabs(dp_pa);
-  if (a >= transition_pa) return dp_pa > 0.0 ? k * std::sqrt(a) : -k * std::sqrt(a);
-  const double st = std::sqrt(transition_pa);
-  return k * (1.25 * dp_pa / st - 0.25 * dp_pa * dp_pa * dp_pa / (transition_pa * transition_pa * st));
+  return orifice_flow_k(cd * std::sqrt(2.0 / density_kg_m3), area_m2, dp_pa, transition_pa);
 }
 
 double edge_area(const Element& edge, double spool_position) {
@@ -123,22 +172,25 @@ void node_pressures(const Network& net, const StateLayout& layout, const double*
   p_pa.resize(net.nodes.size());
   for (std::size_t i = 0; i < net.nodes.size(); ++i) {
     const int k = layout.node_state[i];
-    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : y[k] * kPressureScale;
+    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : physical_pressure(net.oil, y[k] * kPressureScale);
   }
 }
 
-double element_flow(const Network& net, const StateLayout& layout, const Element& e,
-                    const std::vector<double>& p, const double* y) {
+namespace {
+
+// k = Cd sqrt(2/rho) of the element, precomputed by the caller.
+double element_flow_k(const Network& net, const StateLayout& layout, const Element& e, double k,
+                      const std::vector<double>& p, const double* y) {
   const double pf = p[static_cast<std::size_t>(e.from)];
   const double pt = p[static_cast<std::size_t>(e.to)];
   const double dp = pf - pt;
-  const OilModel& oil = net.oil;
+  const double ptr = net.oil.laminar_transition_pa;
   switch (e.kind) {
     case ElementKind::kOrifice:
-      return orifice_flow(e.cd, e.area_m2, dp, oil.density_kg_m3, oil.laminar_transition_pa);
+      return orifice_flow_k(k, e.area_m2, dp, ptr);
     case ElementKind::kSpoolEdge: {
       const double s = y[layout.spool_state[static_cast<std::size_t>(e.spool)]];
-      return orifice_flow(e.cd, edge_area(e, s), dp, oil.density_kg_m3, oil.laminar_transition_pa);
+      return orifice_flow_k(k, edge_area(e, s), dp, ptr);
     }
     case ElementKind::kCheck: {
       double open = smoothstep((dp - e.cracking_pa) / e.full_open_span_pa);
@@ -148,8 +200,7 @@ double element_flow(const Network& net, const StateLayout& layout, const Element
         const double pp = p[static_cast<std::size_t>(e.pilot)];
         open = std::max(open, smoothstep((e.pilot_ratio * pp + dp - e.cracking_pa) / e.full_open_span_pa));
       }
-      return orifice_flow(e.cd, e.area_m2 * open + e.leak_area_m2, dp, oil.density_kg_m3,
-                          oil.laminar_transition_pa);
+      return orifice_flow_k(k, e.area_m2 * open + e.leak_area_m2, dp, ptr);
     }
     case ElementKind::kRelief:
       // Cracking pressure plus an override gradient (linear pressure-flow
@@ -159,6 +210,13 @@ double element_flow(const Network& net, const StateLayout& layout, const Element
       return e.conductance_m3_s_pa * dp;
   }
   return 0.0;
+}
+
+}  // namespace
+
+double element_flow(const Network& net, const StateLayout& layout, const Element& e,
+                    const std::vector<double>& p, const double* y) {
+  return element_flow_k(net, layout, e, e.cd * std::sqrt(2.0 / net.oil.density_kg_m3), p, y);
 }
 
 double pump_flow(const Pump& pump, const NetworkInputs& in, double p_pa) {
@@ -201,20 +259,28 @@ double load_force(const Cylinder& c, const NetworkInputs& in, std::size_t index,
 NetworkRhs::NetworkRhs(const Network& net, const StateLayout& layout)
     : net_(&net),
       layout_(&layout),
+      floor_pa_(cavitation_floor_pa(net.oil)),
       p_(net.nodes.size()),
       q_net_(net.nodes.size()),
-      dvdt_(net.nodes.size()) {}
+      dvdt_(net.nodes.size()) {
+  for (const Element& e : net.elements) flow_k_.push_back(e.cd * std::sqrt(2.0 / net.oil.density_kg_m3));
+}
 
 void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y, double* dydt) {
   const Network& net = *net_;
   const StateLayout& L = *layout_;
-  node_pressures(net, L, y, p_);
-  std::fill(q_net_.begin(), q_net_.end(), 0.0);
-  std::fill(dvdt_.begin(), dvdt_.end(), 0.0);
+  const std::size_t nn = net.nodes.size();
+  for (std::size_t i = 0; i < nn; ++i) {
+    const int k = L.node_state[i];
+    p_[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : physical_pressure_at(net.oil, y[k] * kPressureScale, floor_pa_);
+    q_net_[i] = 0.0;
+    dvdt_[i] = 0.0;
+  }
   double returned = 0.0;
 
-  for (const Element& e : net.elements) {
-    const double q = element_flow(net, L, e, p_, y);
+  for (std::size_t j = 0; j < net.elements.size(); ++j) {
+    const Element& e = net.elements[j];
+    const double q = element_flow_k(net, L, e, flow_k_[j], p_, y);
     const auto f = static_cast<std::size_t>(e.from);
     const auto t = static_cast<std::size_t>(e.to);
     q_net_[f] -= q;
@@ -257,10 +323,10 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
     const int k = L.node_state[i];
     if (k < 0) continue;
     const double vol = node_volume(net, net.nodes[i], y, L);
-    const double beta = effective_bulk_modulus(net.oil, p_[i]);
-    const double dp = beta / vol * (q_net_[i] - dvdt_[i]);
-    dydt[k] = dp / kPressureScale;
-    compressed += vol / beta * dp;
+    dydt[k] = pressure_state_rate_at(net.oil, y[k] * kPressureScale, vol, q_net_[i] - dvdt_[i], floor_pa_) /
+              kPressureScale;
+    // V/beta dp/dt equals the net inflow by the continuity equation.
+    compressed += q_net_[i] - dvdt_[i];
   }
 
   for (std::size_t s = 0; s < net.spools.size(); ++s) {

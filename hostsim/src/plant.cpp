@@ -205,7 +205,9 @@ bool Plant::advance(double dt_s) {
 }
 
 void Plant::sample_switches(const std::vector<double>& y) {
-  node_pressures(net_, layout_, y.data(), p_scratch_);
+  bool pressures_needed = false;
+  for (const Wiring::Sensor& s : wiring_->sensors) pressures_needed |= s.kind == SensorKind::kPressureSwitch;
+  if (pressures_needed) node_pressures(net_, layout_, y.data(), p_scratch_);
   for (Wiring::Sensor& s : wiring_->sensors) {
     double value = 0.0;
     if (s.kind == SensorKind::kLimitSwitch) {

@@ -100,6 +100,7 @@ nlohmann::json reference_case(const Network& net, const std::vector<double>& y0,
               {"bulk_modulus_pa", net.oil.bulk_modulus_pa},
               {"air_fraction", net.oil.air_fraction},
               {"min_air_fraction", kMinAirFraction},
+              {"cavitation_bulk_modulus_pa", kCavitationBulkModulusPa},
               {"atmospheric_pa", net.oil.atmospheric_pa},
               {"laminar_transition_pa", net.oil.laminar_transition_pa}};
   json nodes = json::array();

@@ -17,6 +17,8 @@
 #include <fstream>
 #include <string>
 
+#include <sys/wait.h>
+
 #include <nlohmann/json.hpp>
 
 #include "spoolstep/hostsim/demo.hpp"
@@ -99,7 +101,10 @@ int main(int argc, char** argv) {
   const int rc = reuse && std::filesystem::exists(result_path) ? 0 : std::system(cmd.c_str());
   if (rc != 0) {
     const int code = WIFEXITED(rc) ? WEXITSTATUS(rc) : -1;
-    if (code == 3) {
+    if (code == 127) {
+      std::fprintf(stderr, "hostsim_refcheck: FAILED: %s not found; install Debian's python3 and python3-scipy\n",
+                   python.c_str());
+    } else if (code == 3) {
       std::fprintf(stderr,
                    "hostsim_refcheck: FAILED: %s has no scipy. Install Debian's python3-scipy "
                    "(apt-get install python3-scipy); CI installs it.\n",

@@ -22,7 +22,6 @@ PRESSURE_SCALE = 1e5  # state unit: bar
 LENGTH_SCALE = 1e-3   # state unit: mm, mm/s
 VOLUME_SCALE = 1e-6   # state unit: cm^3
 STANDARD_GRAVITY = 9.80665  # 3rd CGPM (1901), from memory
-MIN_ABS_PRESSURE_PA = 1000.0
 
 
 def smoothstep(u):
@@ -69,12 +68,35 @@ class Model:
         self.ptr = self.oil["laminar_transition_pa"]
         self.inputs = None
 
+    def air(self):
+        return max(self.oil["air_fraction"], self.oil["min_air_fraction"])
+
+    def floor(self):
+        o = self.oil
+        return math.sqrt(self.air() * o["atmospheric_pa"] * o["cavitation_bulk_modulus_pa"])
+
     def beta(self, p):
         # 1/beta_e = 1/beta_oil + a * p_atm / p_abs^2 (isothermal free air)
         o = self.oil
-        air = max(o["air_fraction"], o["min_air_fraction"])
-        pabs = max(p + o["atmospheric_pa"], MIN_ABS_PRESSURE_PA)
-        return 1.0 / (1.0 / o["bulk_modulus_pa"] + air * o["atmospheric_pa"] / (pabs * pabs))
+        pabs = max(p + o["atmospheric_pa"], 1e-300)
+        return 1.0 / (1.0 / o["bulk_modulus_pa"] + self.air() * o["atmospheric_pa"] / (pabs * pabs))
+
+    def physical(self, s):
+        """Physical gauge pressure of a pressure state (cavitation transform)."""
+        f = self.floor()
+        sa = s + self.oil["atmospheric_pa"]
+        if sa >= f:
+            return s
+        return f * f / (2.0 * f - sa) - self.oil["atmospheric_pa"]
+
+    def state_rate(self, s, vol, qnet):
+        o = self.oil
+        f = self.floor()
+        sa = s + o["atmospheric_pa"]
+        if sa >= f:
+            return self.beta(s) / vol * qnet
+        pabs = f * f / (2.0 * f - sa)
+        return qnet / vol * f * f / (pabs * pabs / o["bulk_modulus_pa"] + self.air() * o["atmospheric_pa"])
 
     def orifice(self, cd, area, dp):
         k = cd * area * math.sqrt(2.0 / self.rho)
@@ -128,7 +150,7 @@ class Model:
         p = [0.0] * nn
         for i, nd in enumerate(self.nodes):
             k = self.node_state[i]
-            p[i] = nd["fixed_pressure_pa"] if k < 0 else y[k] * PRESSURE_SCALE
+            p[i] = nd["fixed_pressure_pa"] if k < 0 else self.physical(y[k] * PRESSURE_SCALE)
         q = [0.0] * nn
         dv = [0.0] * nn
         returned = 0.0
@@ -196,10 +218,8 @@ class Model:
                 x = y[self.first_cyl + 2 * nd["cylinder"]] * LENGTH_SCALE
                 vol += cy["area_a_m2"] * x if nd["side"] > 0 else cy["area_b_m2"] * (cy["stroke_m"] - x)
             vol = max(vol, 0.1 * nd["base_volume_m3"])
-            be = self.beta(p[i])
-            dp = be / vol * (q[i] - dv[i])
-            dydt[k] = dp / PRESSURE_SCALE
-            compressed += vol / be * dp
+            dydt[k] = self.state_rate(y[k] * PRESSURE_SCALE, vol, q[i] - dv[i]) / PRESSURE_SCALE
+            compressed += q[i] - dv[i]
         for s, sp in enumerate(self.spools):
             k = self.spool_state[s]
             stuck = inp["spool_stuck"][s]
@@ -280,6 +300,10 @@ def main(argv):
         filled[idx] = True
         y = sol.y[:, -1]
     wall = time.perf_counter() - start
+    # Node columns report the physical pressure, not the pressure state.
+    for i, k in enumerate(model.node_state):
+        if k >= 0:
+            rows[:, k] = [model.physical(v * PRESSURE_SCALE) / PRESSURE_SCALE for v in rows[:, k]]
     if not filled.all():
         print("plant_ref: internal error, %d samples not filled" % int((~filled).sum()), file=sys.stderr)
         return 4

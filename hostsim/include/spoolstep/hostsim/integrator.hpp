@@ -40,15 +40,26 @@ struct SolverStats {
 class Integrator {
  public:
   virtual ~Integrator() = default;
-  /// Advances y (state units) from t to t_end under constant inputs.
-  /// Returns false if the step size collapsed (y then holds the last good state).
-  virtual bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
-                       const std::function<void(double, const std::vector<double>&)>& on_step) = 0;
-  virtual const SolverStats& stats() const = 0;
-  /// Forget the step-size history (after a jump in the state).
-  virtual void restart() = 0;
-  /// The inputs changed: a reused Jacobian may no longer fit.
-  virtual void inputs_changed() = 0;
+  /// Advances y (state units) from t to t_end under constant inputs, calling
+  /// on_step after every accepted internal step. Returns false if the step
+  /// size collapsed (y then holds the last good state).
+  bool advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+               const std::function<void(double, const std::vector<double>&)>& on_step) {
+    return do_advance(in, y, t, t_end, on_step);
+  }
+  /// Counters since construction.
+  const SolverStats& stats() const { return do_stats(); }
+  /// Forgets the step-size history (after a jump in the state).
+  void restart() { do_restart(); }
+  /// Tells the integrator the inputs changed: a reused Jacobian may no longer fit.
+  void inputs_changed() { do_inputs_changed(); }
+
+ private:
+  virtual bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
+                          const std::function<void(double, const std::vector<double>&)>& on_step) = 0;
+  virtual const SolverStats& do_stats() const = 0;
+  virtual void do_restart() = 0;
+  virtual void do_inputs_changed() = 0;
 };
 
 /// Creates the integrator for a network; `net` and `layout` must outlive it.

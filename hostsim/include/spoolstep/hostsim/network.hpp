@@ -27,8 +27,10 @@ struct OilModel {
 
 /// Smallest free-air fraction used in the bulk modulus; see OilModel.
 inline constexpr double kMinAirFraction = 1e-7;
-/// Absolute pressure below which the bulk modulus stops falling (Pa).
-inline constexpr double kMinAbsolutePressurePa = 1000.0;
+/// Below the absolute pressure where the air term alone gives this bulk
+/// modulus (Pa), i.e. p_abs = sqrt(air * p_atm * this), the pressure state
+/// is mapped so that the physical pressure stays above absolute zero.
+inline constexpr double kCavitationBulkModulusPa = 1.0e8;
 
 struct Node {
   std::string name;
@@ -180,6 +182,15 @@ std::vector<double> initial_state(const Network& net, const StateLayout& layout)
 /// Effective bulk modulus at gauge pressure p (Pa): pure oil plus free air.
 double effective_bulk_modulus(const OilModel& oil, double p_pa);
 
+/// Physical gauge pressure (Pa) of a node whose pressure state is
+/// p_state_pa: equal above the cavitation floor, and mapped so that it never
+/// falls below absolute zero below it.
+double physical_pressure(const OilModel& oil, double p_state_pa);
+
+/// d(pressure state)/dt (Pa/s) of a node of volume V with net inflow
+/// Q_in - dV/dt (m^3/s).
+double pressure_state_rate(const OilModel& oil, double p_state_pa, double volume_m3, double net_flow_m3_s);
+
 /// Orifice equation Q = Cd A sqrt(2 dp / rho), with a cubic laminar blend
 /// below `transition_pa`; sign follows dp. Returns m^3/s.
 double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m3,
@@ -215,6 +226,8 @@ class NetworkRhs {
  private:
   const Network* net_;
   const StateLayout* layout_;
+  double floor_pa_ = 0.0;         ///< cavitation floor (absolute), computed once
+  std::vector<double> flow_k_;    ///< per element: Cd sqrt(2/rho)
   std::vector<double> p_;
   std::vector<double> q_net_;
   std::vector<double> dvdt_;

@@ -1,0 +1,139 @@
+// The plant section loader: every error names file, JSON pointer, reason and
+// fix; unknown fields are errors; nothing is built when anything is wrong.
+#include <gtest/gtest.h>
+
+#include <fstream>
+#include <sstream>
+#include <string>
+
+#include "rig.hpp"
+
+namespace spoolstep::hostsim::test {
+namespace {
+
+using core::ValveCentre;
+using core::ValveKind;
+
+std::vector<PlantError> errors_of(const Rig& rig) {
+  auto res = build_plant(rig.plant, rig.machine, "machine.json");
+  if (auto* e = std::get_if<std::vector<PlantError>>(&res)) return *e;
+  return {};
+}
+
+bool has_error(const std::vector<PlantError>& errors, const std::string& path, const std::string& words) {
+  for (const auto& e : errors) {
+    if (e.json_path == path && e.reason.find(words) != std::string::npos) return true;
+  }
+  return false;
+}
+
+std::string all(const std::vector<PlantError>& errors) {
+  std::string s;
+  for (const auto& e : errors) s += e.message() + "\n";
+  return s;
+}
+
+Rig valid() { return single_cylinder(ValveKind::kSolenoid43SpringCentred, ValveCentre::kClosed); }
+
+TEST(PlantConfig, ValidSectionBuilds) {
+  EXPECT_TRUE(errors_of(valid()).empty());
+  EXPECT_TRUE(errors_of(Rig{demo_machine(), demo_plant_json()}).empty());
+}
+
+TEST(PlantConfig, UnknownFieldIsAnErrorNamingPathAndFix) {
+  Rig rig = valid();
+  rig.plant["cylinders"][0]["bore"] = 63;
+  const auto errors = errors_of(rig);
+  ASSERT_TRUE(has_error(errors, "/plant/cylinders/0/bore", "unknown field")) << all(errors);
+  const std::string m = errors[0].message();
+  EXPECT_NE(m.find("machine.json: /plant/cylinders/0/bore"), std::string::npos) << m;
+  EXPECT_NE(m.find("bore_mm"), std::string::npos) << "the fix lists the known fields: " << m;
+}
+
+TEST(PlantConfig, MissingRequiredFieldAndOutOfRangeValue) {
+  Rig rig = valid();
+  rig.plant["cylinders"][0].erase("mass_kg");
+  rig.plant["valves"][0]["overlap_percent"] = 60;
+  rig.plant["oil"]["density_kg_m3"] = "heavy";
+  const auto errors = errors_of(rig);
+  EXPECT_TRUE(has_error(errors, "/plant/cylinders/0/mass_kg", "missing required")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/valves/0/overlap_percent", "outside the range")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/oil/density_kg_m3", "expected a number")) << all(errors);
+}
+
+TEST(PlantConfig, EveryFunctionNeedsAValveAndACylinder) {
+  Rig rig = valid();
+  rig.plant["valves"] = nlohmann::json::array();
+  rig.plant["cylinders"][0]["function"] = "nope";
+  const auto errors = errors_of(rig);
+  EXPECT_TRUE(has_error(errors, "/plant/valves", "has no valve entry")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/cylinders/0/function", "no function named")) << all(errors);
+}
+
+TEST(PlantConfig, ValveFieldsMustFitTheKindAndCentreFromTheMachineFile) {
+  Rig rig = valid();
+  rig.plant["valves"][0]["response"] = {{"order", 1}};
+  rig.plant["valves"][0]["bleed_orifice_mm2"] = 1.0;
+  const auto errors = errors_of(rig);
+  EXPECT_TRUE(has_error(errors, "/plant/valves/0/response", "only proportional valves")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/valves/0/bleed_orifice_mm2", "only a bleed centre")) << all(errors);
+
+  Rig bleed = single_cylinder(ValveKind::kSolenoid43SpringCentred, ValveCentre::kBleed);
+  EXPECT_TRUE(has_error(errors_of(bleed), "/plant/valves/0/bleed_orifice_mm2", "needs the bleed orifice"));
+}
+
+TEST(PlantConfig, ThroughPassageNeedsAnUpstreamCentreThatPassesP) {
+  core::MachineConfig machine = demo_machine();
+  machine.functions[0].centre = ValveCentre::kClosed;  // clamp
+  const auto errors = errors_of(Rig{machine, demo_plant_json()});
+  EXPECT_TRUE(has_error(errors, "/plant/valves/1/supply/through_of", "does not pass P on")) << all(errors);
+}
+
+TEST(PlantConfig, SensorsMustNameExistingInputsAndNodes) {
+  Rig rig = valid();
+  rig.plant["sensors"] = nlohmann::json::parse(R"([
+    {"kind": "pressure", "at": "cyl.C", "input": "p_a"},
+    {"kind": "pressure", "at": "pump", "input": "no_input"},
+    {"kind": "limit_switch", "cylinder": "cyl", "at_mm": 10, "input": "at_end"},
+    {"kind": "thermometer", "input": "x"}
+  ])");
+  const auto errors = errors_of(rig);
+  EXPECT_TRUE(has_error(errors, "/plant/sensors/0/at", "no node named")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/sensors/1/input", "no analog input")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/sensors/2/active", "needs this field")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/sensors/3/kind", "not one of the allowed values")) << all(errors);
+}
+
+TEST(PlantConfig, WrongJsonTypesNeverThrow) {
+  Rig rig = valid();
+  rig.plant["valves"] = 5;
+  rig.plant["pump"] = nlohmann::json::array();
+  const auto errors = errors_of(rig);
+  EXPECT_FALSE(errors.empty());
+  Rig top = valid();
+  top.plant = "not an object";
+  EXPECT_TRUE(has_error(errors_of(top), "/plant", "expected a JSON object"));
+}
+
+TEST(PlantConfig, ParameterTableRendersForTheDocs) {
+  const std::string table = plant_parameter_table_markdown();
+  EXPECT_NE(table.find("| valves[] | overlap_percent | number | % | 0 | 0 .. 45 |"), std::string::npos) << table;
+}
+
+TEST(PlantConfig, DocsCarryTheCurrentParameterTable) {
+  std::ifstream in(std::string(SPOOLSTEP_SOURCE_DIR) + "/docs/plant-model.md");
+  ASSERT_TRUE(in) << "docs/plant-model.md not found";
+  std::stringstream doc;
+  doc << in.rdbuf();
+  const std::string text = doc.str();
+  const std::string begin = "<!-- parameter-table:begin -->\n";
+  const auto b = text.find(begin);
+  const auto e = text.find("<!-- parameter-table:end -->");
+  ASSERT_NE(b, std::string::npos);
+  ASSERT_NE(e, std::string::npos);
+  EXPECT_EQ(text.substr(b + begin.size(), e - b - begin.size()), plant_parameter_table_markdown())
+      << "regenerate the table in docs/plant-model.md from plant_parameter_table_markdown()";
+}
+
+}  // namespace
+}  // namespace spoolstep::hostsim::test
