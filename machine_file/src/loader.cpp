@@ -499,6 +499,9 @@ class Loader {
   // -- sections
   void load_timing(const json& doc);
   void load_inputs(const json& doc);
+  std::uint8_t load_point_names(const json& section, const std::string& section_path, const char* key,
+                                std::size_t capacity, const char* capacity_name, const char* what, core::Name* names,
+                                NameIndex& index);
   void load_outputs(const json& doc);
   void load_two_hand(const json& doc);
   void prepass_names(const json& doc);
@@ -840,6 +843,28 @@ void Loader::load_timing(const json& doc) {
   }
 }
 
+// A list of plain named I/O points ({"name", "description"}): names into
+// `names`, indices into `index`; returns the count (capped at `capacity`).
+std::uint8_t Loader::load_point_names(const json& section, const std::string& section_path, const char* key,
+                                      std::size_t capacity, const char* capacity_name, const char* what,
+                                      core::Name* names, NameIndex& index) {
+  const json* list = member(section, section_path, key);
+  const std::string path = section_path + "/" + key;
+  if (list == nullptr || !expect_array(*list, path)) return 0;
+  const std::size_t n = capped(list->size(), capacity, capacity_name, path, what);
+  for (std::size_t i = 0; i < n; ++i) {
+    const std::string p = child(path, i);
+    const json& item = (*list)[i];
+    if (!expect_object(item, p)) continue;
+    check_keys(item, p, {"name", "description"});
+    read_string(item, p, "description");
+    const std::string name = read_name(item, p);
+    set_name(names[i], name);
+    if (claim_name(io_names_, name, p, "I/O point")) index[name] = static_cast<std::uint8_t>(i);
+  }
+  return static_cast<std::uint8_t>(n);
+}
+
 void Loader::load_inputs(const json& doc) {
   const json* in = member(doc, "", "inputs");
   if (in == nullptr) {
@@ -848,21 +873,9 @@ void Loader::load_inputs(const json& doc) {
   }
   if (!expect_object(*in, "/inputs")) return;
   check_keys(*in, "/inputs", {"digital", "analog"});
-  if (const json* list = member(*in, "/inputs", "digital"); list != nullptr && expect_array(*list, "/inputs/digital")) {
-    const std::string path = "/inputs/digital";
-    const std::size_t n = capped(list->size(), core::kMaxDigitalInputs, "kMaxDigitalInputs", path, "digital inputs");
-    for (std::size_t i = 0; i < n; ++i) {
-      const std::string p = child(path, i);
-      const json& item = (*list)[i];
-      if (!expect_object(item, p)) continue;
-      check_keys(item, p, {"name", "description"});
-      read_string(item, p, "description");
-      const std::string name = read_name(item, p);
-      set_name(cfg_.digital_inputs[i], name);
-      if (claim_name(io_names_, name, p, "I/O point")) digital_[name] = static_cast<std::uint8_t>(i);
-    }
-    cfg_.digital_input_count = static_cast<std::uint8_t>(n);
-  }
+  cfg_.digital_input_count = load_point_names(*in, "/inputs", "digital", core::kMaxDigitalInputs,
+                                              "kMaxDigitalInputs", "digital inputs", cfg_.digital_inputs.data(),
+                                              digital_);
   if (const json* list = member(*in, "/inputs", "analog"); list != nullptr && expect_array(*list, "/inputs/analog")) {
     const std::string path = "/inputs/analog";
     const std::size_t n = capped(list->size(), core::kMaxAnalogInputs, "kMaxAnalogInputs", path, "analog inputs");
@@ -917,21 +930,8 @@ void Loader::load_outputs(const json& doc) {
   }
   if (!expect_object(*out, "/outputs")) return;
   check_keys(*out, "/outputs", {"coils", "proportional"});
-  if (const json* list = member(*out, "/outputs", "coils"); list != nullptr && expect_array(*list, "/outputs/coils")) {
-    const std::string path = "/outputs/coils";
-    const std::size_t n = capped(list->size(), core::kMaxCoils, "kMaxCoils", path, "coils");
-    for (std::size_t i = 0; i < n; ++i) {
-      const std::string p = child(path, i);
-      const json& item = (*list)[i];
-      if (!expect_object(item, p)) continue;
-      check_keys(item, p, {"name", "description"});
-      read_string(item, p, "description");
-      const std::string name = read_name(item, p);
-      set_name(cfg_.coils[i], name);
-      if (claim_name(io_names_, name, p, "I/O point")) coils_[name] = static_cast<std::uint8_t>(i);
-    }
-    cfg_.coil_count = static_cast<std::uint8_t>(n);
-  }
+  cfg_.coil_count = load_point_names(*out, "/outputs", "coils", core::kMaxCoils, "kMaxCoils", "coils",
+                                     cfg_.coils.data(), coils_);
   if (const json* list = member(*out, "/outputs", "proportional");
       list != nullptr && expect_array(*list, "/outputs/proportional")) {
     const std::string path = "/outputs/proportional";
