@@ -6,8 +6,11 @@
 // within 2 %.
 //
 // Usage: hostsim_refcheck PYTHON SCRIPT WORKDIR [--reuse] [--solver METHOD RTOL ATOL]
+//                        [--machine FILE]
 //   --reuse   keep WORKDIR/reference.json from an earlier run (same case)
 //   --solver  integrate here with another method/tolerances (for measuring)
+//   --machine the plant of this machine file (the README's demo press cell)
+//             with its own open-loop timeline, instead of the in-code demo
 #include <algorithm>
 #include <chrono>
 #include <cmath>
@@ -22,22 +25,57 @@
 #include <nlohmann/json.hpp>
 
 #include "spoolstep/hostsim/demo.hpp"
+#include "spoolstep/machine_file/machine_file.hpp"
 
 using namespace spoolstep::hostsim;
 
 namespace {
 
 nlohmann::json g_solver;  // empty: the plant section's default
+std::unique_ptr<spoolstep::machine_file::LoadedMachine> g_machine;  // set by --machine
 
 std::unique_ptr<Plant> demo_plant() {
-  nlohmann::json pj = demo_plant_json();
+  nlohmann::json pj = g_machine ? g_machine->plant : demo_plant_json();
   if (!g_solver.is_null()) pj["solver"] = g_solver;
-  auto res = build_plant(pj, demo_machine(), "demo");
+  auto res = g_machine ? build_plant(pj, g_machine->config, g_machine->source_path)
+                       : build_plant(pj, demo_machine(), "demo");
   if (auto* errs = std::get_if<std::vector<PlantError>>(&res)) {
     for (const auto& e : *errs) std::fprintf(stderr, "%s\n", e.message().c_str());
     return nullptr;
   }
   return std::move(std::get<std::unique_ptr<Plant>>(res));
+}
+
+// An open-loop timeline for the press cell of config/press_cell.json: pump
+// loaded, clamp closes, the ram runs down at full opening onto the part,
+// presses against the relief valve, decompresses through the bleed centre,
+// returns, and the clamp opens (invented, like the machine).
+Timeline press_cell_cycle() {
+  using W = TimelineEvent::What;
+  Timeline t;
+  auto spool = [&](double time, const char* f, double target) {
+    TimelineEvent e;
+    e.time_s = time;
+    e.what = W::kSpool;
+    e.function = f;
+    e.target = target;
+    t.events.push_back(e);
+  };
+  TimelineEvent pump;
+  pump.time_s = 0.0;
+  pump.what = W::kPump;
+  pump.running = true;
+  pump.loaded = true;
+  t.events.push_back(pump);
+  spool(0.05, "clamp", 1.0);
+  spool(0.60, "press", 1.0);   // down at full opening: the pump limits the speed
+  spool(4.00, "press", 0.0);   // on the part since about 3.8 s; centre: the bleed vents the cap side
+  spool(4.60, "press", -1.0);  // return
+  spool(8.10, "press", 0.0);
+  spool(8.20, "clamp", -1.0);  // unclamp
+  spool(8.70, "clamp", 0.0);
+  t.end_s = 9.0;
+  return t;
 }
 
 }  // namespace
@@ -52,6 +90,13 @@ int main(int argc, char** argv) {
     const std::string a = argv[i];
     if (a == "--reuse") {
       reuse = true;
+    } else if (a == "--machine" && i + 1 < argc) {
+      auto loaded = spoolstep::machine_file::load_machine_file(argv[++i]);
+      if (!loaded.ok()) {
+        for (const auto& e : loaded.errors) std::fprintf(stderr, "%s\n", e.to_string().c_str());
+        return 2;
+      }
+      g_machine = std::move(loaded.machine);
     } else if (a == "--solver" && i + 3 < argc) {
       g_solver = {{"method", argv[i + 1]}, {"rtol", std::atof(argv[i + 2])}, {"atol", std::atof(argv[i + 3])}};
       i += 3;
@@ -64,13 +109,15 @@ int main(int argc, char** argv) {
   const std::filesystem::path dir = argv[3];
   std::filesystem::create_directories(dir);
   const double period = 1e-3;
-  const double relief_bar = 180.0;  // demo_plant_json relief cracking
+  const double relief_bar = g_machine ? g_machine->plant.at("relief").at("cracking_bar").get<double>()
+                                      : 180.0;  // demo_plant_json relief cracking
+  const Timeline timeline = g_machine ? press_cell_cycle() : demo_press_cycle();
 
   auto plant = demo_plant();
   if (!plant) return 1;
   const std::vector<double> y0 = plant->state();
   Trace trace;
-  if (!run_open_loop(*plant, demo_press_cycle(), period, trace)) {
+  if (!run_open_loop(*plant, timeline, period, trace)) {
     std::fprintf(stderr, "hostsim_refcheck: the C++ integration failed\n");
     return 1;
   }
@@ -80,7 +127,7 @@ int main(int argc, char** argv) {
     auto p = demo_plant();
     Trace t;
     const auto t0 = std::chrono::steady_clock::now();
-    (void)run_open_loop(*p, demo_press_cycle(), period, t);
+    (void)run_open_loop(*p, timeline, period, t);
     cpp_wall = std::min(cpp_wall, std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count());
   }
 
