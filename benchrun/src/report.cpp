@@ -70,7 +70,8 @@ std::string svg_plot(const std::string& title, const std::string& unit, const st
       "<text x=\"{}\" y=\"16\" font-size=\"13\" font-weight=\"bold\">{}{}</text>",
       w, h, w, h, escape(title), left, top, pw, ph, left, escape(title), unit.empty() ? "" : " [" + escape(unit) + "]");
   for (int k = 0; k <= 4; ++k) {
-    const double y = lo + (hi - lo) * k / 4.0;
+    double y = lo + (hi - lo) * k / 4.0;
+    if (std::fabs(y) < (hi - lo) * 1e-6) y = 0.0;  // print 0, not a rounding residue
     svg += fmt::format("<line x1=\"{}\" x2=\"{}\" y1=\"{:.1f}\" y2=\"{:.1f}\" stroke=\"#eee\"/>"
                        "<text x=\"{}\" y=\"{:.1f}\" font-size=\"10\" text-anchor=\"end\">{}</text>",
                        left, left + pw, Y(y), Y(y), left - 4, Y(y) + 3, nice(y));
