@@ -1,6 +1,11 @@
 #include "spoolstep/benchrun/plant_adapter.hpp"
 
+#include <algorithm>
+#include <cmath>
+
 #include <fmt/format.h>
+
+#include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
 namespace {
@@ -95,24 +100,54 @@ PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& m
   for (std::size_t i = 0; i < facts.plant_digital.size(); ++i) facts.plant_digital[i] = low.digital[i] == high.digital[i];
   for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = low.analog[i].value == high.analog[i].value;
   for (const auto& s : signals) facts.signal_names.push_back(s.name);
-  facts.check_fault = [](const nlohmann::json& f) -> std::optional<std::string> {
-    if (!f.is_object()) return "a plant fault is an object: {\"kind\": ..., \"target\": ..., \"value\": ...}";
+  // Valid targets by kind, so a misspelt target is bad input at load time.
+  std::vector<std::string> functions, inputs, outputs, cylinders;
+  for (std::uint8_t i = 0; i < machine.function_count; ++i) functions.emplace_back(machine_file::name_view(machine.functions[i].name));
+  for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) inputs.emplace_back(machine_file::name_view(machine.digital_inputs[i]));
+  for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) inputs.emplace_back(machine_file::name_view(machine.analog_inputs[i].name));
+  for (std::uint8_t i = 0; i < machine.coil_count; ++i) outputs.emplace_back(machine_file::name_view(machine.coils[i]));
+  for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) outputs.emplace_back(machine_file::name_view(machine.prop_outputs[i].name));
+  for (const auto& s : signals) {
+    if (ends_with(s.name, ".x_mm")) cylinders.push_back(s.name.substr(6, s.name.size() - 6 - 5));  // "plant." ... ".x_mm"
+  }
+  using Problem = PlantFacts::FaultProblem;
+  facts.check_fault = [functions, inputs, outputs, cylinders](const nlohmann::json& f) -> std::optional<Problem> {
+    if (!f.is_object()) return Problem{"", "a plant fault is an object: {\"kind\": ..., \"target\": ..., \"value\": ...}"};
     for (const auto& [key, value] : f.items()) {
       if (key != "kind" && key != "target" && key != "value")
-        return fmt::format("unknown field '{}' in a plant fault (fields: kind, target, value)", key);
+        return Problem{key, fmt::format("unknown field '{}' in a plant fault (fields: kind, target, value)", key)};
     }
-    if (!f.contains("kind") || !f["kind"].is_string()) return "a plant fault needs \"kind\" (a string)";
+    if (!f.contains("kind") || !f["kind"].is_string()) return Problem{"kind", "a plant fault needs \"kind\" (a string)"};
     const std::string kind = f["kind"].get<std::string>();
     const FaultName* found = nullptr;
     for (const FaultName& n : kFaultNames) found = kind == n.name ? &n : found;
     if (found == nullptr) {
       std::string all;
       for (const FaultName& n : kFaultNames) all += (all.empty() ? "" : ", ") + std::string(n.name);
-      return fmt::format("unknown plant fault kind '{}' (kinds: {})", kind, all);
+      return Problem{"kind", fmt::format("unknown plant fault kind '{}' (kinds: {})", kind, all)};
     }
-    if (std::string(found->target_kind) != "none" && (!f.contains("target") || !f["target"].is_string()))
-      return fmt::format("a {} fault needs \"target\": the {} name", kind, found->target_kind);
-    if (f.contains("value") && !f["value"].is_number()) return "\"value\" must be a number";
+    const std::string target_kind = found->target_kind;
+    if (target_kind != "none") {
+      if (!f.contains("target") || !f["target"].is_string())
+        return Problem{"target", fmt::format("a {} fault needs \"target\": the {} name", kind, target_kind)};
+      const std::string target = f["target"].get<std::string>();
+      const std::vector<std::string>& names = target_kind == "function" ? functions
+                                              : target_kind == "input"  ? inputs
+                                              : target_kind == "output" ? outputs
+                                                                        : cylinders;
+      if (std::find(names.begin(), names.end(), target) == names.end()) {
+        std::string list;
+        for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+        return Problem{"target", fmt::format("no {} named '{}' (the {}s: {})", target_kind, target, target_kind, list)};
+      }
+    }
+    if (f.contains("value") && !f["value"].is_number()) return Problem{"value", "\"value\" must be a number"};
+    const double value = f.value("value", 0.0);
+    if (found->kind == FaultKind::kPumpFailure && !(value >= 0.0 && value <= 1.0))
+      return Problem{"value", "a pump failure's value is the remaining fraction of the flow, 0 to 1"};
+    if (found->kind == FaultKind::kSealLeak && !(value >= 0.0))
+      return Problem{"value", "a seal leak's value is a leak coefficient in mm^3/s per bar, 0 or more"};
+    if (!std::isfinite(value)) return Problem{"value", "\"value\" must be finite"};
     return std::nullopt;
   };
   return facts;

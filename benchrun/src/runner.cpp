@@ -43,6 +43,7 @@ std::vector<Signal> core_signals(const core::MachineConfig& m) {
   s.push_back({"step", "", SignalKind::kInteger, SignalGroup::kState});
   s.push_back({"faults", "", SignalKind::kInteger, SignalGroup::kState});
   s.push_back({"pump", "", SignalKind::kInteger, SignalGroup::kState});
+  s.push_back({"cycles", "", SignalKind::kInteger, SignalGroup::kState});
   for (std::uint8_t i = 0; i < m.digital_input_count; ++i)
     s.push_back({"di." + str(m.digital_inputs[i]), "", SignalKind::kDigital, SignalGroup::kInput});
   for (std::uint8_t i = 0; i < m.analog_input_count; ++i)
@@ -69,9 +70,13 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
   for (TraceSink* sink : sinks) sink->begin(signals);
 
   core::Controller controller;
-  // A configuration the loader accepted is valid for the core as well; if
-  // not, the core itself holds every output off and the run shows it.
-  controller.init(machine).ignore();
+  const core::Status status = controller.init(machine);
+  if (!status.is_ok()) {
+    outcome.error = std::string("the control core rejects the configuration (") + core::to_string(status.code()) +
+                    " in " + status.where() + " row " + std::to_string(status.index()) + ")";
+    for (TraceSink* sink : sinks) sink->end(0.0);
+    return outcome;
+  }
   core::InputImage inputs{};
   core::OutputImage outputs{};
   for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) {
@@ -86,13 +91,14 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
   const std::uint64_t progress_step = end_us / 10 == 0 ? end_us + 1 : end_us / 10;
   std::uint64_t next_progress = progress_step;
   std::size_t next_event = 0;
-  std::uint64_t stall_us = 0;
+  std::uint64_t clock_offset_us = 0;  // delay_scan events push every later time stamp back
   std::uint64_t t_us = 0;
   std::vector<double> row;
   row.reserve(signals.size());
 
   for (; t_us <= end_us; t_us += period_us) {
-    if (plant != nullptr) plant->read_inputs(inputs);
+    // Scenario events first (a plant fault acts on this scan's sensors), then
+    // the plant's sensors, which the scenario may not script.
     while (next_event < scenario.events.size() && scenario.events[next_event].at_us <= t_us) {
       const TimelineEvent& ev = scenario.events[next_event++];
       switch (ev.kind) {
@@ -128,13 +134,14 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
           }
           break;
         case TimelineEvent::Kind::kDelayScan:
-          stall_us = static_cast<std::uint64_t>(ev.value);
+          clock_offset_us += static_cast<std::uint64_t>(ev.value);
           break;
       }
     }
-    // A stalled scan: the controller sees a late time stamp; the plant runs on.
-    const auto now_us = static_cast<std::uint32_t>((t_us + stall_us) & 0xFFFFFFFFu);
-    if (stall_us != 0) stall_us = 0;
+    if (plant != nullptr) plant->read_inputs(inputs);
+    // A delayed scan: this one comes late by the delay, and every later one
+    // keeps the same period after it. The plant runs on in machine time.
+    const auto now_us = static_cast<std::uint32_t>((t_us + clock_offset_us) & 0xFFFFFFFFu);
     if (options.before_scan) options.before_scan(inputs, now_us);
     controller.scan(inputs, now_us, outputs);
     if (options.after_scan) options.after_scan(outputs, controller.diagnostics());
@@ -146,6 +153,7 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
     row.push_back(static_cast<double>(d.active_step));
     row.push_back(static_cast<double>(d.fault_count));
     row.push_back(static_cast<double>(d.power_unit));
+    row.push_back(static_cast<double>(d.completed_cycles));
     for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) row.push_back(inputs.digital[i] ? 1.0 : 0.0);
     for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) row.push_back(static_cast<double>(d.analog_value[i]));
     for (std::uint8_t i = 0; i < machine.coil_count; ++i) row.push_back(outputs.coils[i] ? 1.0 : 0.0);

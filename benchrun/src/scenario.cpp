@@ -221,7 +221,8 @@ class Reader {
       if (plant_ == nullptr) {
         error(p, "plant faults need a plant model", "Run it with 'spoolstep sim' on a machine file that has a plant section.");
       } else if (const auto problem = plant_->check_fault ? plant_->check_fault(e["plant_fault"]) : std::nullopt) {
-        error(p, *problem, "See docs/plant-model.md for the fault kinds.");
+        error(problem->field.empty() ? p : p + "/" + problem->field, problem->reason,
+              "See docs/scenario-format.md for the plant fault kinds and their targets.");
       } else {
         TimelineEvent ev; ev.kind = TimelineEvent::Kind::kPlantFault; ev.plant_fault = e["plant_fault"];
         add(ev, p);
@@ -242,7 +243,7 @@ class Reader {
   void expectation(const json& e, const std::string& path, const std::vector<std::string>& signals,
                    std::vector<Expectation>& out) {
     if (!object(e, path, {"name", "kind", "step", "before_s", "state", "at_s", "signal", "min", "max",
-                          "from_s", "to_s", "tolerance", "while_off", "grace_ms", "within_ms"}))
+                          "from_s", "to_s", "tolerance", "while_off", "grace_ms", "within_ms", "hold_ms"}))
       return;
     const auto kind = text(e, path, "kind", true);
     if (!kind) return;
@@ -300,6 +301,7 @@ class Reader {
       x.kind = Expectation::Kind::kSafeWithin;
       x.at_s = number(e, path, "at_s", 0.0, 1e6, true).value_or(0.0);
       x.within_ms = number(e, path, "within_ms", 0.0, 1e6, true).value_or(0.0);
+      x.hold_ms = number(e, path, "hold_ms", 0.0, 1e6, false).value_or(100.0);
     } else if (*kind == "final_within") {
       x.kind = Expectation::Kind::kFinalWithin;
       signal();

@@ -144,17 +144,23 @@ void ExpectationChecker::begin(const std::vector<Signal>& signals) {
 
 void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
   const double eps = 1e-9;
+  last_row_s_ = t_s;
   for (std::size_t k = 0; k < live_.size(); ++k) {
     const Expectation& x = scenario_.expectations[k];
     Live& l = live_[k];
     if (l.done) continue;
     switch (x.kind) {
-      case Expectation::Kind::kStepReached:
-        if (v[static_cast<std::size_t>(step_column_)] == x.step && t_s <= x.before_s + eps) {
+      case Expectation::Kind::kStepReached: {
+        // Reached means entered: a step active from the first row (the
+        // initial step) has not been reached by anything the run did.
+        const double step = v[static_cast<std::size_t>(step_column_)];
+        if (step == x.step && l.previous_step >= 0.0 && l.previous_step != x.step && t_s <= x.before_s + eps) {
           l.first_time = t_s;
           l.done = true;
         }
+        l.previous_step = step;
         break;
+      }
       case Expectation::Kind::kStateAt:
         if (t_s + eps >= x.at_s) {
           l.last_value = v[static_cast<std::size_t>(state_column_)];
@@ -177,6 +183,7 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
           l.off_since = t_s;
         }
         if (l.off_since >= 0.0 && (t_s - l.off_since) * 1e3 + eps >= x.grace_ms) {
+          l.ever_off = true;
           const double y = std::fabs(v[static_cast<std::size_t>(l.column)]);
           if (y > l.observed_max) l.observed_max = y;
           if (y > x.tolerance && !l.failed) { l.failed = true; l.fail_time = t_s; l.last_value = y; }
@@ -186,7 +193,15 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
         if (t_s + eps >= x.at_s) {
           bool safe = true;
           for (int c : valve_columns_) safe = safe && (c < 0 || v[static_cast<std::size_t>(c)] == 0.0);
-          if (safe) { l.first_time = t_s; l.done = true; }
+          if (l.safe_since < 0.0) {
+            if (safe) l.safe_since = t_s;
+          } else if (!safe) {
+            l.relapse_time = t_s;  // came on again during the hold
+            l.done = true;
+          } else if ((t_s - l.safe_since) * 1e3 + eps >= x.hold_ms) {
+            l.done = true;
+          }
+          if (l.safe_since >= 0.0) l.first_time = l.safe_since;
         }
         break;
       case Expectation::Kind::kFinalWithin:
@@ -198,6 +213,7 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
 
 void ExpectationChecker::end(double t_end_s) {
   results_.clear();
+  t_end_s = last_row_s_ >= 0.0 ? last_row_s_ : t_end_s;  // the time actually simulated
   for (std::size_t k = 0; k < live_.size(); ++k) {
     const Expectation& x = scenario_.expectations[k];
     const Live& l = live_[k];
@@ -218,7 +234,11 @@ void ExpectationChecker::end(double t_end_s) {
         break;
       case Expectation::Kind::kStaysWithin:
         r.kind = "stays_within";
-        r.passed = !l.failed && l.observed_max >= l.observed_min;
+        r.passed = !l.failed && l.observed_max >= l.observed_min && (x.to_s > 1e299 || x.to_s <= t_end_s + 1e-9);
+        if (x.to_s < 1e299 && x.to_s > t_end_s + 1e-9) {
+          r.detail = fmt::format("the run ended at {:.3f} s, before the window's end at {:.3f} s", t_end_s, x.to_s);
+          break;
+        }
         r.detail = l.observed_max < l.observed_min ? "no samples in the time window"
                    : fmt::format("{} ranged {} .. {} (allowed {} .. {}){}", x.signal, number(l.observed_min), number(l.observed_max),
                                  x.min < -1e299 ? "-inf" : number(x.min), x.max > 1e299 ? "inf" : number(x.max),
@@ -226,7 +246,12 @@ void ExpectationChecker::end(double t_end_s) {
         break;
       case Expectation::Kind::kStillWhileOff:
         r.kind = "still_while_off";
-        r.passed = !l.failed;
+        r.passed = !l.failed && l.ever_off;
+        if (!l.ever_off) {
+          r.detail = fmt::format("{} was never off (past the grace time): nothing was checked",
+                                 machine_file::name_view(machine_.digital_inputs[x.input]));
+          break;
+        }
         r.detail = fmt::format("largest |{}| while {} was off (after {} ms): {} (tolerance {}){}", x.signal,
                                machine_file::name_view(machine_.digital_inputs[x.input]), number(x.grace_ms),
                                l.observed_max < 0 ? "0 (never off)" : number(l.observed_max), number(x.tolerance),
@@ -234,10 +259,20 @@ void ExpectationChecker::end(double t_end_s) {
         break;
       case Expectation::Kind::kSafeWithin: {
         r.kind = "safe_within";
-        const double took_ms = std::max(0.0, (l.first_time - x.at_s) * 1e3);
-        r.passed = l.done && took_ms <= x.within_ms + 1e-6;
-        r.detail = l.done ? fmt::format("valve outputs off {:.1f} ms after {:.3f} s (limit {} ms)", took_ms, x.at_s, number(x.within_ms))
-                          : "valve outputs never all off";
+        const double took_ms = std::max(0.0, (l.safe_since - x.at_s) * 1e3);
+        if (l.safe_since < 0.0) {
+          r.detail = "valve outputs never all off";
+        } else if (l.relapse_time >= 0.0) {
+          r.detail = fmt::format("valve outputs off {:.1f} ms after {:.3f} s, but on again at {:.3f} s", took_ms,
+                                 x.at_s, l.relapse_time);
+        } else if (!l.done) {
+          r.detail = fmt::format("valve outputs off {:.1f} ms after {:.3f} s; the run ended before {} ms of hold",
+                                 took_ms, x.at_s, number(x.hold_ms));
+        } else {
+          r.passed = took_ms <= x.within_ms + 1e-6;
+          r.detail = fmt::format("valve outputs off {:.1f} ms after {:.3f} s (limit {} ms) and stayed off {} ms",
+                                 took_ms, x.at_s, number(x.within_ms), number(x.hold_ms));
+        }
         break;
       }
       case Expectation::Kind::kFinalWithin:
@@ -259,6 +294,7 @@ bool ExpectationChecker::all_passed() const {
 
 void FigureCollector::begin(const std::vector<Signal>& signals) {
   step_column_ = find_signal(signals, "step");
+  cycles_column_ = find_signal(signals, "cycles");
   for (std::size_t i = 0; i < signals.size(); ++i) {
     const Signal& s = signals[i];
     const bool pressure = s.group == SignalGroup::kPressure ||
@@ -282,14 +318,19 @@ void FigureCollector::row(double t_s, const std::vector<double>& v) {
     const double s = std::fabs(v[static_cast<std::size_t>(speed_columns_[k])]);
     if (s > speeds_[k].value) speeds_[k] = Peak{speeds_[k].signal, speeds_[k].unit, s, t_s};
   }
-  // A cycle runs from leaving the initial step to coming back to it.
+  // A cycle runs from leaving the initial step to the chain's own return to
+  // it (the core counts those); a reset after a fault also returns to the
+  // initial step but ends no cycle.
   const double step = v[static_cast<std::size_t>(step_column_)];
+  const double cycles = v[static_cast<std::size_t>(cycles_column_)];
   if (last_step_ == 0.0 && step != 0.0) cycle_start_s_ = t_s;
-  if (last_step_ != 0.0 && step == 0.0 && cycle_start_s_ >= 0.0) {
+  if (cycles > last_cycles_ && cycle_start_s_ >= 0.0) {
     cycle_times_.push_back(t_s - cycle_start_s_);
-    cycle_start_s_ = -1.0;
+    cycle_start_s_ = step != 0.0 ? t_s : -1.0;
   }
+  if (step == 0.0 && cycles == last_cycles_) cycle_start_s_ = -1.0;  // back without completing: not a cycle
   last_step_ = step;
+  last_cycles_ = cycles;
 }
 
 // ---------------------------------------------------------------- plots --

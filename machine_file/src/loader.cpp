@@ -6,6 +6,7 @@
 // it finds instead of stopping at the first. Exceptions from nlohmann_json
 // stop at this file's boundary and become LoadErrors.
 #include <algorithm>
+#include <cmath>
 #include <cctype>
 #include <cerrno>
 #include <cstring>
@@ -910,7 +911,13 @@ void Loader::load_inputs(const json& doc) {
       } else {
         const double low = (*range)[0].get<double>();
         const double high = (*range)[1].get<double>();
-        if (low == high) {
+        // Scaled in single precision on the target: keep far from overflow.
+        constexpr double kRangeLimit = 1e9;
+        if (!(std::fabs(low) <= kRangeLimit && std::fabs(high) <= kRangeLimit)) {
+          fail(rp, fmt::format("range ends must lie within +-{} (got {} to {})", number_text(kRangeLimit),
+                               number_text(low), number_text(high)),
+               "Use a unit that keeps the numbers moderate (e.g. bar instead of Pa).");
+        } else if (low == high) {
           fail(rp, fmt::format("range is empty ({} to {})", number_text(low), number_text(high)),
                "The two ends must differ.");
         }

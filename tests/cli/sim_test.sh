@@ -46,7 +46,15 @@ sed 's/"sensor_wire_break"/"sensor_wirebreak"/' "$scenario" >"$work/bad_fault.js
 "$bin" sim "$machine" "$work/bad_fault.json" --out "$work/bad" >/dev/null 2>"$work/bad_err.txt"
 code=$?
 [ $code -eq 2 ] || fail "unknown fault kind: exit code $code"
-grep -q "bad_fault.json: /timeline/.*/plant_fault: unknown plant fault kind 'sensor_wirebreak'" "$work/bad_err.txt" || fail "fault message: $(cat "$work/bad_err.txt")"
+grep -q "bad_fault.json: /timeline/.*/plant_fault/kind: unknown plant fault kind 'sensor_wirebreak'" "$work/bad_err.txt" || fail "fault message: $(cat "$work/bad_err.txt")"
+
+# A misspelt fault target is bad input at load time, not a run that stops halfway.
+sed 's/"target": "press_position"/"target": "press_postion"/' "$scenario" >"$work/bad_target.json"
+"$bin" sim "$machine" "$work/bad_target.json" --out "$work/run1" >/dev/null 2>"$work/target_err.txt"
+code=$?
+[ $code -eq 2 ] || fail "unknown fault target: exit code $code"
+grep -q "/plant_fault/target: no input named 'press_postion'" "$work/target_err.txt" || fail "target message: $(cat "$work/target_err.txt")"
+[ -f "$work/run1/trace.csv" ] || fail "a failed load must leave the previous results alone"
 [ -e "$work/bad" ] && fail "output directory created for bad input"
 [ -e "$work/bad.partial" ] && fail "staging directory created for bad input"
 

@@ -52,6 +52,10 @@ int run_replay(const ReplayOptions& o) {
       return kExitInternal;
     }
   }
+  if (!outcome.completed) {
+    std::cerr << "spoolstep replay: the run stopped early: " << outcome.error << "\n";
+    return kExitFailed;
+  }
   std::cout << fmt::format("\n{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<40} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);

@@ -83,7 +83,9 @@ int run_sim(const SimOptions& o) {
     return kExitInternal;
   }
 
-  std::cout << fmt::format("{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
+  const double simulated_s = outcome.scans == 0 ? 0.0 : static_cast<double>(outcome.scans - 1) * period_s;
+  std::cout << fmt::format("{} scans, {:.3f} s simulated{}\n", outcome.scans, simulated_s,
+                           report.completed ? "" : fmt::format(" of {:.3f} s", scenario->duration_s));
   if (!report.run_error.empty()) std::cout << "run stopped early: " << report.run_error << "\n";
   std::cout << fmt::format("  {:4}  {:<44} {}\n", "", "expectation", "observed");
   for (const auto& r : checker.results()) {

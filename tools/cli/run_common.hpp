@@ -7,6 +7,7 @@
 
 #include "spoolstep/benchrun/runner.hpp"
 #include "spoolstep/benchrun/scenario.hpp"
+#include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::cli {
@@ -17,6 +18,15 @@ inline std::unique_ptr<machine_file::LoadedMachine> load_machine_or_report(const
   machine_file::LoadResult result = machine_file::load_machine_file(path);
   if (!result.ok()) {
     for (const auto& e : result.errors) std::cerr << "spoolstep " << command << ": " << e.to_string() << "\n";
+    return nullptr;
+  }
+  // The core's own check is the last word: never run a configuration the
+  // core would hold in its safe state from the first scan.
+  const core::Status status = core::validate_config(result.machine->config);
+  if (!status.is_ok()) {
+    std::cerr << "spoolstep " << command << ": " << path << ": the control core rejects this configuration ("
+              << core::to_string(status.code()) << " in " << status.where() << " row " << status.index()
+              << "). Fix the machine file; 'spoolstep check' names the field when it can.\n";
     return nullptr;
   }
   return std::move(result.machine);

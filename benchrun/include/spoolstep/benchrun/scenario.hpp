@@ -45,7 +45,7 @@ struct Expectation {
     kStateAt,      ///< machine state equals `state` at at_s
     kStaysWithin,  ///< signal within [min, max] over [from_s, to_s]
     kStillWhileOff,///< |signal| <= tolerance whenever digital input `input` has been false for grace_ms
-    kSafeWithin,   ///< every valve output off within within_ms after at_s
+    kSafeWithin,   ///< every valve output off within within_ms after at_s, and off for hold_ms after
     kFinalWithin,  ///< signal within [min, max] at the end
   };
   std::string name;
@@ -63,6 +63,7 @@ struct Expectation {
   double to_s = 1e300;
   double within_ms = 0.0;
   double grace_ms = 0.0;  ///< still_while_off: stopping allowance after the input goes off
+  double hold_ms = 100.0; ///< safe_within: the outputs must then stay off this long
   std::string json_path;
 };
 
@@ -88,8 +89,14 @@ struct PlantFacts {
   std::vector<bool> plant_analog;
   /// Signal names the plant adds to the trace (for expectation checks).
   std::vector<std::string> signal_names;
-  /// Checks one plant fault object; returns an error text or nullopt.
-  std::function<std::optional<std::string>(const nlohmann::json&)> check_fault;
+  /// A problem in a plant fault object: the field at fault ("" for the
+  /// object itself) and the reason.
+  struct FaultProblem {
+    std::string field;
+    std::string reason;
+  };
+  /// Checks one plant fault object; returns the problem or nullopt.
+  std::function<std::optional<FaultProblem>(const nlohmann::json&)> check_fault;
 };
 
 struct ScenarioLoad {

@@ -72,6 +72,10 @@ class ExpectationChecker final : public TraceSink {
     double first_time = -1.0;
     double fail_time = 0.0;
     double off_since = -1.0;  // still_while_off: when the input last went off
+    bool ever_off = false;    // still_while_off: the input was off at least once past the grace
+    double previous_step = -1.0;  // step_reached: the step of the previous row
+    double safe_since = -1.0;     // safe_within: first all-off sample in time
+    double relapse_time = -1.0;   // safe_within: a valve came on again during the hold
     double last_value = 0.0;
   };
   const Scenario& scenario_;
@@ -81,6 +85,7 @@ class ExpectationChecker final : public TraceSink {
   int state_column_ = -1;
   int step_column_ = -1;
   std::vector<ExpectationResult> results_;
+  double last_row_s_ = -1.0;
 };
 
 /// Key figures of a run: cycle times, peak of every pressure signal, top
@@ -104,6 +109,8 @@ class FigureCollector final : public TraceSink {
   std::vector<Peak> pressures_, speeds_;
   std::vector<double> cycle_times_;
   int step_column_ = -1;
+  int cycles_column_ = -1;
+  double last_cycles_ = 0.0;
   double cycle_start_s_ = -1.0;
   double last_step_ = 0.0;
 };
