@@ -12,6 +12,7 @@
 
 #include "spoolstep/benchrun/runner.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
+#include "spoolstep/machine_file/json_text.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
@@ -361,7 +362,10 @@ class Reader {
       }
     }
     for (const TimelineEvent& ev : scenario->events) {
-      if (static_cast<double>(ev.at_us) * 1e-6 > scenario->duration_s + 1e-9 && ev.kind != TimelineEvent::Kind::kSetDigital)
+      // A pulse's release may fall after the end; anything else there would be silently ignored.
+      const bool pulse_release = ev.kind == TimelineEvent::Kind::kSetDigital && ev.value == 0.0 &&
+                                 ev.json_path.find("/pulse") != std::string::npos;
+      if (static_cast<double>(ev.at_us) * 1e-6 > scenario->duration_s + 1e-9 && !pulse_release)
         error(ev.json_path, "happens after the end of the run", "Raise duration_s or move the event.");
     }
     std::stable_sort(scenario->events.begin(), scenario->events.end(),
@@ -391,19 +395,26 @@ std::string ScenarioError::to_string() const {
 ScenarioLoad load_scenario_text(const std::string& text, const std::string& display_name,
                                 const core::MachineConfig& machine, const PlantFacts* plant) {
   ScenarioLoad result;
-  json doc;
-  try {
-    doc = json::parse(text);
-  } catch (const json::parse_error& e) {
-    // nlohmann reports the byte offset; turn it into line and column.
-    std::size_t line = 1, column = 1;
-    for (std::size_t k = 0; k + 1 < e.byte && k < text.size(); ++k) {
-      if (text[k] == '\n') { ++line; column = 1; } else { ++column; }
-    }
-    result.errors.push_back(ScenarioError{display_name, "", fmt::format("JSON syntax error at line {}, column {}", line, column),
+  // The same strict reading as machine files: comments allowed, duplicate
+  // keys and absurd nesting refused, syntax errors with line and column.
+  machine_file::ParsedJson parsed = machine_file::parse_json_text(text);
+  if (!parsed.syntax_error.empty()) {
+    result.errors.push_back(ScenarioError{display_name, "", "invalid JSON: " + parsed.syntax_error,
                                           "Check for a missing comma, quote or bracket near there."});
     return result;
   }
+  if (parsed.too_deep) {
+    result.errors.push_back(ScenarioError{display_name, parsed.too_deep_at,
+                                          fmt::format("nested deeper than {} levels", machine_file::kMaxJsonDepth),
+                                          "No part of a scenario needs that; check the brackets."});
+    return result;
+  }
+  for (const auto& [path, key] : parsed.duplicates) {
+    result.errors.push_back(ScenarioError{display_name, path, fmt::format("duplicate key '{}' in one object", key),
+                                          "Remove one of them; otherwise only the last would count."});
+  }
+  if (!result.errors.empty()) return result;
+  const json& doc = parsed.doc;
   Reader reader(display_name, machine, plant);
   try {
     result.scenario = reader.read(doc);

@@ -22,6 +22,7 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/machine_file/json_text.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
 
@@ -122,6 +123,9 @@ std::string number_text(double value) { return fmt::format("{:g}", value); }
 
 /// Short rendering of a JSON value for "(got ...)" in messages.
 std::string got(const json& value) {
+  // Containers by their size only: printing a deeply nested one would recurse without bound.
+  if (value.is_array()) return fmt::format("a list of {} items", value.size());
+  if (value.is_object()) return fmt::format("an object with {} keys", value.size());
   std::string text = value.dump();
   if (text.size() > 40) text = text.substr(0, 37) + "...";
   return text;
@@ -130,6 +134,7 @@ std::string got(const json& value) {
 /// The value with its JSON type, for type errors: `string "200"`, `null`.
 std::string got_typed(const json& value) {
   if (value.is_null()) return "null";
+  if (value.is_array() || value.is_object()) return got(value);
   return std::string(value.type_name()) + " " + got(value);
 }
 
@@ -495,6 +500,7 @@ class Loader {
   // -- conditions
   std::uint16_t add_node(core::ConditionNode node, const std::string& label, const std::string& path);
   std::uint16_t compile(const json& c, const std::string& path);
+  int compile_depth_ = 0;
   std::uint16_t compile_interlock(std::uint8_t index, const std::string& ref_path);
 
   // -- sections
@@ -557,6 +563,19 @@ std::uint16_t Loader::add_node(core::ConditionNode node, const std::string& labe
 }
 
 std::uint16_t Loader::compile(const json& c, const std::string& path) {
+  // Nesting deeper than this cannot fit the node table anyway, and the
+  // recursion must stay bounded whatever the file holds.
+  constexpr int kMaxConditionDepth = 32;
+  struct DepthGuard {
+    int& depth;
+    explicit DepthGuard(int& d) : depth(++d) {}
+    ~DepthGuard() { --depth; }
+  } guard(compile_depth_);
+  if (compile_depth_ > kMaxConditionDepth) {
+    fail(path, fmt::format("conditions nested deeper than {} levels", kMaxConditionDepth),
+         "Name parts of the condition as interlocks and refer to them with {\"interlock\": ...}.");
+    return core::kNoCondition;
+  }
   core::ConditionNode node;
   if (c.is_boolean()) {
     node.op = c.get<bool>() ? core::ConditionOp::kTrue : core::ConditionOp::kFalse;
@@ -1604,64 +1623,6 @@ void Loader::load(const json& doc) {
   if (const json* p = member(doc, "", "plant"); p != nullptr && expect_object(*p, "/plant")) plant = *p;
 }
 
-/// Tracks object keys while parsing to catch duplicates, which nlohmann_json
-/// would otherwise accept silently (the last one winning).
-struct DuplicateKeyWatcher {
-  struct Frame {
-    bool is_object;
-    std::set<std::string> keys;
-    std::string key;
-    long index = -1;
-  };
-  std::vector<Frame> frames;
-  std::vector<std::pair<std::string, std::string>> duplicates;  // path, key
-
-  std::string path_to_top() const {
-    std::string path;
-    for (std::size_t i = 0; i + 1 < frames.size(); ++i) {
-      path = frames[i].is_object ? child(path, frames[i].key) : child(path, static_cast<std::size_t>(frames[i].index));
-    }
-    return path;
-  }
-
-  void element() {
-    if (!frames.empty() && !frames.back().is_object) ++frames.back().index;
-  }
-
-  bool operator()(int /*depth*/, json::parse_event_t event, json& parsed) {
-    switch (event) {
-      case json::parse_event_t::object_start:
-        element();
-        frames.push_back(Frame{true, {}, {}, -1});
-        break;
-      case json::parse_event_t::array_start:
-        element();
-        frames.push_back(Frame{false, {}, {}, -1});
-        break;
-      case json::parse_event_t::key: {
-        auto& top = frames.back();
-        top.key = parsed.get<std::string>();
-        if (!top.keys.insert(top.key).second) duplicates.emplace_back(child(path_to_top(), top.key), top.key);
-        break;
-      }
-      case json::parse_event_t::value:
-        element();
-        break;
-      case json::parse_event_t::object_end:
-      case json::parse_event_t::array_end:
-        frames.pop_back();
-        break;
-    }
-    return true;
-  }
-};
-
-/// "[json.exception.parse_error.101] parse error at line 3, ..." -> "parse error at line 3, ...".
-std::string strip_exception_id(const std::string& what) {
-  const auto close = what.find("] ");
-  return what.rfind("[json.exception.", 0) == 0 && close != std::string::npos ? what.substr(close + 2) : what;
-}
-
 }  // namespace
 
 std::string LoadError::to_string() const {
@@ -1678,19 +1639,22 @@ LoadResult load_machine_text(const std::string& text, const std::string& display
     result.errors.push_back(LoadError{display_name, std::move(path), std::move(reason), std::move(hint)});
   };
   try {
-    DuplicateKeyWatcher watcher;
-    json doc;
-    try {
-      doc = json::parse(text, std::ref(watcher), /*allow_exceptions=*/true, /*ignore_comments=*/true);
-    } catch (const json::parse_error& e) {
-      error("", "invalid JSON: " + strip_exception_id(e.what()),
+    ParsedJson parsed = parse_json_text(text);
+    if (!parsed.syntax_error.empty()) {
+      error("", "invalid JSON: " + parsed.syntax_error,
             "Fix the JSON syntax there (a missing comma, quote or bracket is the usual cause).");
       return result;
     }
-    for (const auto& [path, key] : watcher.duplicates) {
+    if (parsed.too_deep) {
+      error(parsed.too_deep_at, fmt::format("nested deeper than {} levels", kMaxJsonDepth),
+            "No part of a machine file needs that; check the brackets.");
+      return result;
+    }
+    for (const auto& [path, key] : parsed.duplicates) {
       error(path, fmt::format("duplicate key '{}' in one object", key),
             "Remove one of them; JSON parsers would silently keep only the last.");
     }
+    const json& doc = parsed.doc;
     auto machine = std::make_unique<LoadedMachine>();
     Loader loader(display_name, machine->config);
     loader.load(doc);
