@@ -227,9 +227,25 @@ StagedDirectory::StagedDirectory(fs::path target) : target_(std::move(target)) {
     error_ = target_.string() + " exists and holds files that are not a spoolstep run; choose another --out";
     return;
   }
+  // Replacing the directory the user stands in (or one above it) would pull
+  // the floor from under the shell.
+  const fs::path cwd = fs::current_path(ec);
+  if (!ec) {
+    const fs::path here = cwd.lexically_normal();
+    const auto rel = here.lexically_relative(target_);
+    if (!rel.empty() && *rel.begin() != "..") {
+      error_ = target_.string() + " is the current directory or above it; choose a subdirectory for --out";
+      return;
+    }
+  }
   fs::create_directories(target_.parent_path(), ec);
   staging_ = target_;
   staging_ += ".partial";
+  if (fs::exists(staging_) && !fs::exists(staging_ / kMarker)) {
+    error_ = staging_.string() + " exists and is not a spoolstep staging directory; move it away";
+    staging_.clear();
+    return;
+  }
   fs::remove_all(staging_, ec);
   if (!fs::create_directory(staging_, ec) || ec) {
     error_ = "cannot create " + staging_.string() + ": " + ec.message();

@@ -29,11 +29,16 @@ const char* state_name(std::uint8_t state) {
 // ------------------------------------------------------------------ CSV --
 
 void CsvTraceWriter::begin(const std::vector<Signal>& signals) {
+  // RFC 4180: a header field holding a comma, quote or line break is quoted,
+  // with quotes doubled (units come from the machine file as free text).
+  auto field = [](const std::string& text) {
+    if (text.find_first_of(",\"\r\n") == std::string::npos) return text;
+    std::string quoted = "\"";
+    for (char c : text) quoted += c == '"' ? std::string("\"\"") : std::string(1, c);
+    return quoted + "\"";
+  };
   out_ << "t_s";
-  for (const Signal& s : signals) {
-    out_ << ',' << s.name;
-    if (!s.unit.empty()) out_ << '[' << s.unit << ']';
-  }
+  for (const Signal& s : signals) out_ << ',' << field(s.unit.empty() ? s.name : s.name + "[" + s.unit + "]");
   out_ << '\n';
 }
 

@@ -66,6 +66,27 @@ sed 's/"quick_stop_ms": 80/"quick_stop_ms": -80/' "$machine" >"$work/bad_machine
 expect_code 2 $? "check a bad machine file"
 grep -q "/functions/1/quick_stop_ms" "$work/err4.txt" || fail "bad machine message: $(cat "$work/err4.txt")"
 
+# An output that is one of the inputs is refused; the input is untouched.
+cp "$machine" "$work/m.json"
+"$bin" replay "$work/m.json" "$timeline" --trace "$work/m.json" -q >/dev/null 2>"$work/err5.txt"
+expect_code 2 $? "--trace onto the machine file"
+cmp -s "$machine" "$work/m.json" || fail "the machine file was overwritten by --trace"
+"$bin" export "$work/m.json" -o "$work/m.json" >/dev/null 2>&1
+expect_code 2 $? "export onto the machine file"
+cmp -s "$machine" "$work/m.json" || fail "the machine file was overwritten by export"
+
+# Duplicate keys in a scenario are errors, not "the last one wins".
+sed 's/"duration_s": 14.0,/"duration_s": 14.0, "duration_s": 2.0,/' "$timeline" >"$work/dup.json"
+"$bin" replay "$machine" "$work/dup.json" -q >/dev/null 2>"$work/err6.txt"
+expect_code 2 $? "scenario with a duplicate key"
+grep -q "/duration_s: duplicate key 'duration_s'" "$work/err6.txt" || fail "duplicate key message: $(cat "$work/err6.txt")"
+
+# check covers the plant section too.
+sed 's/"oil": {/"oil_": {/' "$machine" >"$work/bad_plant.json"
+"$bin" check "$work/bad_plant.json" >/dev/null 2>"$work/err7.txt"
+expect_code 2 $? "check a machine file with a bad plant section"
+grep -q "/plant/oil_" "$work/err7.txt" || fail "plant error message: $(cat "$work/err7.txt")"
+
 if [ "$failures" -eq 0 ]; then echo "cli tests: all passed"; exit 0; fi
 echo "cli tests: $failures failed"
 exit 1

@@ -76,6 +76,12 @@ sed 's/"before_s": 8.0/"before_s": 5.0/' "$scenario" >"$work/late.json"
 [ $? -eq 1 ] || fail "a failed expectation should exit 1"
 grep -q '"passed": false' "$work/late/summary.json" || fail "summary should say failed"
 
+# The current directory (or above it) is never an --out.
+mkdir -p "$work/here"
+(cd "$work/here" && "$bin" sim "$machine" "$scenario" --out . -q >/dev/null 2>&1)
+[ $? -eq 2 ] || fail "--out . should be refused"
+[ -d "$work/here" ] || fail "the current directory was removed"
+
 if [ "$failures" -eq 0 ]; then echo "sim tests: all passed"; exit 0; fi
 echo "sim tests: $failures failed"
 exit 1

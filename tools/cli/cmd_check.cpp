@@ -8,6 +8,7 @@
 
 #include "command_registry.hpp"
 #include "spoolstep/core/controller.hpp"
+#include "spoolstep/hostsim/plant.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::cli {
@@ -47,6 +48,17 @@ int run_check(const CheckOptions& options) {
                              core_check.index());
     return kExitInternal;
   }
+  // The plant section (read by the bench) is checked here too, so that a
+  // machine file that passes check also runs on the bench.
+  if (!result.machine->plant.is_null()) {
+    hostsim::BuildResult built = hostsim::build_plant(result.machine->plant, c, options.machine_file);
+    if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
+      for (const auto& e : *errors) std::cerr << e.message() << "\n";
+      std::cerr << fmt::format("{}: {} error{} in the plant section; nothing loaded\n", options.machine_file,
+                               errors->size(), errors->size() == 1 ? "" : "s");
+      return kExitBadInput;
+    }
+  }
   std::cout << fmt::format(
       "{}: ok ({} functions, {} interlocks, {} steps, {} transitions, {} digital + {} analog inputs, "
       "{} coils + {} proportional outputs, {} condition nodes)\n",
@@ -63,7 +75,8 @@ const bool kRegistered = register_command(Command{
       sub.add_option("MACHINE", options->machine_file, "Machine file (.json) to check");
       sub.add_flag("--summary", options->summary, "Also print a readable summary of the loaded machine");
       sub.add_flag("--reference", options->reference, "Print the machine-file parameter reference (Markdown)");
-      sub.footer("Exit codes: 0 ok, 2 the machine file has errors (each printed to stderr with its JSON path).");
+      sub.footer("Exit codes: 0 ok, 2 the machine file (control part or plant section) has errors, each printed to "
+                 "stderr with its JSON path; 3 internal error (the core disagrees with the loader: a bug).");
       return [options] { return run_check(*options); };
     },
     "Check a machine file and report every problem in it"});

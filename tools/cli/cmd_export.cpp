@@ -461,6 +461,12 @@ int run_export(const ExportOptions& options) {
     return kExitBadInput;
   }
   const std::string header = render_header(options, config);
+  std::error_code same_ec;
+  if (!options.output.empty() && std::filesystem::exists(options.output, same_ec) &&
+      std::filesystem::equivalent(options.output, options.machine_file, same_ec)) {
+    std::cerr << "spoolstep export: -o " << options.output << " is the machine file itself; choose another name\n";
+    return kExitBadInput;
+  }
   if (options.output.empty()) {
     std::cout << header;
     return std::cout ? kExitOk : kExitInternal;

@@ -26,6 +26,17 @@ int run_replay(const ReplayOptions& o) {
   auto scenario = load_scenario_or_report(o.timeline_path, machine->config, nullptr, "replay");
   if (!scenario) return kExitBadInput;
 
+  if (!o.trace_path.empty()) {
+    if (overwrites_an_input(o.trace_path, {o.machine_path, o.timeline_path})) {
+      std::cerr << "spoolstep replay: --trace " << o.trace_path << " is one of the input files; choose another name\n";
+      return kExitBadInput;
+    }
+    std::error_code ec;
+    if (std::filesystem::is_directory(o.trace_path, ec)) {
+      std::cerr << "spoolstep replay: --trace " << o.trace_path << " is a directory; give a file name\n";
+      return kExitBadInput;
+    }
+  }
   std::vector<benchrun::TraceSink*> sinks;
   benchrun::ChangePrinter printer(std::cout, machine->config);
   if (!o.quiet) sinks.push_back(&printer);

@@ -2,6 +2,7 @@
 // lock-step at the core's scan period, driven by a scenario. Writes
 // trace.csv, summary.json, io.vcd and report.html into --out, which appears
 // whole or not at all.
+#include <filesystem>
 #include <fstream>
 #include <iostream>
 
@@ -45,6 +46,20 @@ int run_sim(const SimOptions& o) {
   auto scenario = load_scenario_or_report(o.scenario_path, machine->config, &facts, "sim");
   if (!scenario) return kExitBadInput;
 
+  {
+    // --out is replaced whole: it must not hold the files this run reads.
+    std::error_code ec;
+    const auto out_dir = std::filesystem::weakly_canonical(o.out_dir, ec);
+    for (const std::string& input : {o.machine_path, o.scenario_path}) {
+      const auto in = std::filesystem::weakly_canonical(input, ec);
+      const auto rel = in.lexically_relative(out_dir);
+      if (!ec && !rel.empty() && *rel.begin() != "..") {
+        std::cerr << "spoolstep sim: --out " << o.out_dir << " contains the input " << input
+                  << ", and a run replaces that directory; choose another --out\n";
+        return kExitBadInput;
+      }
+    }
+  }
   benchrun::StagedDirectory out(o.out_dir);
   if (!out.error().empty()) {
     std::cerr << "spoolstep sim: " << out.error() << "\n";
@@ -74,11 +89,21 @@ int run_sim(const SimOptions& o) {
   report.expectations = checker.results();
   report.figures = &figures;
   report.plots = &plots;
-  std::ofstream(out.file("summary.json"), std::ios::binary) << benchrun::summary_json(report).dump(2) << "\n";
-  std::ofstream(out.file("report.html"), std::ios::binary) << benchrun::report_html(report);
+  std::ofstream summary_file(out.file("summary.json"), std::ios::binary);
+  summary_file << benchrun::summary_json(report).dump(2) << "\n";
+  std::ofstream report_file(out.file("report.html"), std::ios::binary);
+  report_file << benchrun::report_html(report);
   csv_file.close();
   vcd_file.close();
-  if (!csv_file || !vcd_file || !out.commit()) {
+  summary_file.close();
+  report_file.close();
+  if (!csv_file || !vcd_file || !summary_file || !report_file) {
+    // Nothing replaces --out: the staging folder goes away with `out`.
+    std::cerr << "spoolstep sim: could not write the results into " << o.out_dir
+              << ".partial (disk full or not writable?); the previous results, if any, are untouched\n";
+    return kExitInternal;
+  }
+  if (!out.commit()) {
     std::cerr << "spoolstep sim: could not write the results: " << out.error() << "\n";
     return kExitInternal;
   }

@@ -1,6 +1,8 @@
 #pragma once
 /// Shared steps of the commands that run a machine: load the machine file
 /// and the scenario, print every error the same way, run with progress.
+#include <filesystem>
+#include <initializer_list>
 #include <iostream>
 #include <memory>
 #include <string>
@@ -43,6 +45,16 @@ inline std::unique_ptr<benchrun::Scenario> load_scenario_or_report(const std::st
     return nullptr;
   }
   return std::move(result.scenario);
+}
+
+/// True when `output` names the same file as one of `inputs` (an output
+/// must never overwrite what the command reads).
+inline bool overwrites_an_input(const std::string& output, std::initializer_list<std::string> inputs) {
+  std::error_code ec;
+  for (const std::string& input : inputs) {
+    if (std::filesystem::exists(output, ec) && std::filesystem::equivalent(output, input, ec)) return true;
+  }
+  return false;
 }
 
 /// Progress lines on stderr, one per tenth of the run.
