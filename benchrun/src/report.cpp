@@ -199,7 +199,7 @@ std::string report_html(const RunReport& r) {
     std::string unit;
     auto positions = pick(p, [](const Signal& s) { return s.group == SignalGroup::kPosition; }, unit);
     if (!positions.empty()) html += svg_plot("Positions", unit, p.times(), positions);
-    auto pressures = pick(p, [](const Signal& s) { return s.group == SignalGroup::kPressure || (s.group == SignalGroup::kInput && s.unit == "bar"); }, unit);
+    auto pressures = pick(p, [](const Signal& s) { return s.group == SignalGroup::kPressure || (s.group == SignalGroup::kInput && is_pressure_unit(s.unit)); }, unit);
     if (!pressures.empty()) html += svg_plot("Pressures", unit, p.times(), pressures);
     auto commands = pick(p, [](const Signal& s) { return s.group == SignalGroup::kCommand || s.group == SignalGroup::kSpool; }, unit);
     if (!commands.empty()) html += svg_plot("Valve commands and spool positions", "-1..1", p.times(), commands);

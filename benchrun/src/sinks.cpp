@@ -19,6 +19,13 @@ std::string number(double v) {
 
 }  // namespace
 
+bool is_pressure_unit(const std::string& unit) {
+  for (const char* u : {"bar", "mbar", "Pa", "kPa", "MPa", "psi"}) {
+    if (unit == u) return true;
+  }
+  return false;
+}
+
 const char* state_name(std::uint8_t state) {
   static const char* const kNames[] = {"power_up",       "manual",    "auto_idle", "auto_cycle",
                                        "auto_end_cycle", "auto_held", "stopping",  "faulted"};
@@ -303,7 +310,7 @@ void FigureCollector::begin(const std::vector<Signal>& signals) {
   for (std::size_t i = 0; i < signals.size(); ++i) {
     const Signal& s = signals[i];
     const bool pressure = s.group == SignalGroup::kPressure ||
-                          (s.group == SignalGroup::kInput && s.unit == "bar");
+                          (s.group == SignalGroup::kInput && is_pressure_unit(s.unit));
     if (pressure) {
       pressure_columns_.push_back(static_cast<int>(i));
       pressures_.push_back(Peak{s.name, s.unit, -1e300, 0.0});

@@ -362,6 +362,20 @@ bool is_identifier(std::string_view s) {
   for (char ch : s) {
     if (!(std::isalnum(static_cast<unsigned char>(ch)) || ch == '_')) return false;
   }
+  // C++17 keywords and alternative tokens cannot name anything.
+  static const char* const kKeywords[] = {
+      "alignas", "alignof", "and", "and_eq", "asm", "auto", "bitand", "bitor", "bool", "break", "case", "catch",
+      "char", "char16_t", "char32_t", "class", "compl", "const", "constexpr", "const_cast", "continue",
+      "decltype", "default", "delete", "do", "double", "dynamic_cast", "else", "enum", "explicit", "export",
+      "extern", "false", "float", "for", "friend", "goto", "if", "inline", "int", "long", "mutable",
+      "namespace", "new", "noexcept", "not", "not_eq", "nullptr", "operator", "or", "or_eq", "private",
+      "protected", "public", "register", "reinterpret_cast", "return", "short", "signed", "sizeof", "static",
+      "static_assert", "static_cast", "struct", "switch", "template", "this", "thread_local", "throw", "true",
+      "try", "typedef", "typeid", "typename", "union", "unsigned", "using", "virtual", "void", "volatile",
+      "wchar_t", "while", "xor", "xor_eq"};
+  for (const char* keyword : kKeywords) {
+    if (s == keyword) return false;
+  }
   return true;
 }
 

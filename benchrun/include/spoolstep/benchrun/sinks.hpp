@@ -157,6 +157,9 @@ class ChangePrinter final : public TraceSink {
   bool first_ = true;
 };
 
+/// True for the units a pressure transducer reports in (bar, mbar, Pa, kPa, MPa, psi).
+bool is_pressure_unit(const std::string& unit);
+
 /// Name of a machine state as scenarios and reports write it.
 const char* state_name(std::uint8_t state);
 
