@@ -160,7 +160,7 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
     for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) row.push_back(static_cast<double>(outputs.prop[i].value));
     for (std::uint8_t i = 0; i < machine.function_count; ++i) row.push_back(static_cast<double>(d.functions[i].command));
     if (plant != nullptr) plant->sample(row);
-    const double t_s = static_cast<double>(t_us) * 1e-6;
+    const double t_s = static_cast<double>(t_us) / 1e6;  // the nearest double to the time, so figures print as written
     for (TraceSink* sink : sinks) sink->row(t_s, row);
 
     if (plant != nullptr) {
