@@ -152,6 +152,10 @@ nlohmann::json summary_json(const RunReport& r) {
     all = all && e.passed;
   }
   j["passed"] = all;
+  j["faults"] = nlohmann::json::array();
+  for (const FaultEntry& f : r.faults) {
+    j["faults"].push_back({{"t_s", f.t_s}, {"stop_category", f.category}, {"what", f.text}});
+  }
   nlohmann::json figures;
   if (r.figures != nullptr) {
     figures["cycle_times_s"] = r.figures->cycle_times_s();
@@ -184,6 +188,16 @@ std::string report_html(const RunReport& r) {
                         e.passed ? "pass" : "FAIL", escape(e.name), e.kind, escape(e.detail));
   }
   html += "</table>\n";
+  html += "<h2>Faults raised</h2>\n";
+  if (r.faults.empty()) {
+    html += "<p>None.</p>\n";
+  } else {
+    html += "<table><tr><th>time</th><th>stop category</th><th>fault</th></tr>\n";
+    for (const FaultEntry& f : r.faults) {
+      html += fmt::format("<tr><td>{:.3f} s</td><td>{}</td><td>{}</td></tr>\n", f.t_s, f.category, escape(f.text));
+    }
+    html += "</table>\n";
+  }
   if (r.figures != nullptr) {
     html += "<h2>Key figures</h2><table><tr><th>figure</th><th>value</th></tr>\n";
     for (double c : r.figures->cycle_times_s()) html += fmt::format("<tr><td>cycle time</td><td>{:.3f} s</td></tr>\n", c);

@@ -66,6 +66,12 @@ sed 's/"quick_stop_ms": 80/"quick_stop_ms": -80/' "$machine" >"$work/bad_machine
 expect_code 2 $? "check a bad machine file"
 grep -q "/functions/1/quick_stop_ms" "$work/err4.txt" || fail "bad machine message: $(cat "$work/err4.txt")"
 
+# A supervision fault names the step and the condition that never came true.
+sed -e 's/"press_pressure": 185/"press_pressure": 150/' -e 's/"ms": 4000/"ms": 9000/' "$timeline" >"$work/weak.json"
+"$bin" replay "$machine" "$work/weak.json" -q >"$work/weak_out.txt" 2>&1
+expect_code 1 $? "a cycle whose force never builds"
+grep -q "step 'press_force' took longer than its supervision time: 'press_pressure > 180' did not come true" "$work/weak_out.txt" || fail "supervision fault text: $(grep fault "$work/weak_out.txt")"
+
 # An output that is one of the inputs is refused; the input is untouched.
 cp "$machine" "$work/m.json"
 "$bin" replay "$work/m.json" "$timeline" --trace "$work/m.json" -q >/dev/null 2>"$work/err5.txt"

@@ -8,6 +8,7 @@
 
 #include "command_registry.hpp"
 #include "run_common.hpp"
+#include "spoolstep/benchrun/fault_log.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
 
 namespace spoolstep::cli {
@@ -54,7 +55,11 @@ int run_replay(const ReplayOptions& o) {
     csv = std::make_unique<benchrun::CsvTraceWriter>(trace);
     sinks.push_back(csv.get());
   }
-  const benchrun::RunOutcome outcome = benchrun::run_scenario(machine->config, *scenario, nullptr, sinks);
+  const double period_s = static_cast<double>(machine->config.safety.scan_period_us) / 1e6;
+  benchrun::FaultLog fault_log(machine->config, period_s);
+  benchrun::RunOptions options;
+  options.after_scan = [&fault_log](const core::OutputImage&, const core::Diagnostics& d) { fault_log.observe(d); };
+  const benchrun::RunOutcome outcome = benchrun::run_scenario(machine->config, *scenario, nullptr, sinks, options);
   if (!o.trace_path.empty()) {
     trace.close();
     if (!trace || std::rename(partial.c_str(), o.trace_path.c_str()) != 0) {
@@ -68,6 +73,9 @@ int run_replay(const ReplayOptions& o) {
     return kExitFailed;
   }
   std::cout << fmt::format("\n{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
+  for (const auto& f : fault_log.entries()) {
+    std::cout << fmt::format("  fault at {:.3f} s (stop category {}): {}\n", f.t_s, f.category, f.text);
+  }
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<40} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
   }

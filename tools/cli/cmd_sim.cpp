@@ -11,6 +11,7 @@
 #include "command_registry.hpp"
 #include "run_common.hpp"
 #include "spoolstep/benchrun/report.hpp"
+#include "spoolstep/benchrun/fault_log.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
 #include "spoolstep/benchrun/plant_adapter.hpp"
 
@@ -73,9 +74,11 @@ int run_sim(const SimOptions& o) {
   benchrun::FigureCollector figures;
   const double period_s = static_cast<double>(machine->config.safety.scan_period_us) * 1e-6;
   benchrun::PlotCollector plots(scenario->duration_s, period_s);
+  benchrun::FaultLog fault_log(machine->config, period_s);
+  benchrun::RunOptions options = o.quiet ? benchrun::RunOptions{} : progress_on_stderr("sim");
+  options.after_scan = [&fault_log](const core::OutputImage&, const core::Diagnostics& d) { fault_log.observe(d); };
   const benchrun::RunOutcome outcome =
-      benchrun::run_scenario(machine->config, *scenario, &adapter, {&csv, &vcd, &checker, &figures, &plots},
-                             o.quiet ? benchrun::RunOptions{} : progress_on_stderr("sim"));
+      benchrun::run_scenario(machine->config, *scenario, &adapter, {&csv, &vcd, &checker, &figures, &plots}, options);
 
   benchrun::RunReport report;
   report.machine_path = o.machine_path;
@@ -87,6 +90,7 @@ int run_sim(const SimOptions& o) {
   report.completed = outcome.completed && !adapter.integrator_error();
   report.run_error = !outcome.error.empty() ? outcome.error : adapter.integrator_error().value_or("");
   report.expectations = checker.results();
+  report.faults = fault_log.entries();
   report.figures = &figures;
   report.plots = &plots;
   std::ofstream summary_file(out.file("summary.json"), std::ios::binary);
@@ -115,6 +119,9 @@ int run_sim(const SimOptions& o) {
   std::cout << fmt::format("  {:4}  {:<44} {}\n", "", "expectation", "observed");
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<44} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
+  }
+  for (const auto& f : fault_log.entries()) {
+    std::cout << fmt::format("  fault at {:.3f} s (stop category {}): {}\n", f.t_s, f.category, f.text);
   }
   for (double c : figures.cycle_times_s()) std::cout << fmt::format("  cycle time {:.3f} s\n", c);
   for (const auto& p : figures.peak_pressures())

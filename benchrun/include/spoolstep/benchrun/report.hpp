@@ -8,6 +8,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "spoolstep/benchrun/fault_log.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
 #include "spoolstep/core/config.hpp"
 
@@ -26,6 +27,7 @@ struct RunReport {
   bool completed = false;
   std::string run_error;
   std::vector<ExpectationResult> expectations;
+  std::vector<FaultEntry> faults;  ///< every fault the core raised, in order
   const FigureCollector* figures = nullptr;
   const PlotCollector* plots = nullptr;
 };

@@ -1,0 +1,40 @@
+#pragma once
+/// Faults of a run in words: each fault the core raises, when, and what it
+/// names (the step and the unmet condition of a supervision fault, the
+/// interlock of a trip, the input and the reason of an input fault).
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "spoolstep/core/config.hpp"
+#include "spoolstep/core/io_image.hpp"
+
+namespace spoolstep::benchrun {
+
+/// One sentence for a fault of `machine`, e.g. "step 'press_force' supervision:
+/// 'press_pressure > 180' did not come true".
+std::string describe_fault(const core::MachineConfig& machine, const core::Fault& fault);
+
+struct FaultEntry {
+  double t_s = 0.0;
+  std::string text;
+  std::uint8_t category = 0;
+};
+
+/// Collects each fault once, when it first appears (again after a reset).
+class FaultLog {
+ public:
+  FaultLog(const core::MachineConfig& machine, double period_s) : machine_(machine), period_s_(period_s) {}
+  /// Call after every scan, in order.
+  void observe(const core::Diagnostics& diagnostics);
+  const std::vector<FaultEntry>& entries() const { return entries_; }
+
+ private:
+  const core::MachineConfig& machine_;
+  double period_s_;
+  std::uint64_t scans_ = 0;
+  std::vector<std::uint32_t> active_;  // code << 16 | subject of the faults seen in the previous scan
+  std::vector<FaultEntry> entries_;
+};
+
+}  // namespace spoolstep::benchrun
