@@ -157,7 +157,7 @@ class Ros2 final : public Integrator {
  public:
   Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
       : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
-        lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
+        lu_(n_ * n_), piv_(n_), m_(layout.pumped), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
   bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                   const std::function<void(double, const std::vector<double>&)>& on_step) override {
@@ -165,7 +165,15 @@ class Ros2 final : public Integrator {
     while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
       const double remaining = t_end - t;
       const bool last = h >= remaining * (1.0 - 1e-9);
-      const double dt = last ? remaining : h;
+      // The rest of the period is split into equal steps no longer than h:
+      // step sizes then repeat from period to period (period/1, period/2,
+      // ...), so the LU factors of W are reused instead of being redone
+      // for a short last step in every period.
+      double dt = remaining;
+      if (!last) {
+        const double pieces = std::ceil(remaining / h * (1.0 - 1e-9));
+        dt = remaining / pieces;
+      }
       if (jac_age_ < 0) {
         eval_.jacobian(in, t, y.data(), [this](std::size_t r, std::size_t c, double v) { jac_[r * n_ + c] = v; },
                        nullptr);
@@ -253,16 +261,19 @@ class Ros2 final : public Integrator {
     jac_age_ = -1;
   }
   // A stale Jacobian can hide errors from the estimate (a spool whose rate
-  // saturates after a command step would crawl), so inputs changes refresh it.
+  // saturates after a command step would crawl), so input changes that alter
+  // df/dy refresh it (the plant leaves out those that cannot).
   void do_inputs_changed() override { jac_age_ = -1; }
 
  private:
   // Tuned on the demo press cycle against the Radau reference
-  // (docs/plant-model.md): a Jacobian older than 20 steps is refreshed, a
+  // (docs/plant-model.md): a Jacobian older than 100 steps is refreshed
+  // (the Jacobian check below catches a stale one much earlier where it
+  // matters; 20 cost a Jacobian every 20 quiet periods for nothing), a
   // factorisation is reused while the step stays within 10 % of the step it
   // was made for (any W keeps the order; the margin keeps the stability),
   // and the step grows by at most 2x per step.
-  static constexpr int kMaxJacobianAge = 20;
+  static constexpr int kMaxJacobianAge = 100;
   static constexpr double kLuLow = 0.9;
   static constexpr double kLuHigh = 1.1;
   static constexpr double kMaxGrowth = 2.0;
@@ -270,17 +281,27 @@ class Ros2 final : public Integrator {
   static constexpr double kJacobianMissRefresh = 1.0;
   static constexpr double kGamma = 1.0 + 0.70710678118654752440;
 
+  // W = I - gamma h J is block lower triangular: the accumulators (pumped,
+  // returned, compressed oil; the last states) feed nothing back, so their
+  // columns of J are zero and their block of W is the identity. Only the
+  // dynamic block (m = n - 3 states) is factorised; the accumulators follow
+  // from k_acc = b_acc + gamma h J_acc k_dyn. Partial pivoting stays inside
+  // the dynamic block (before, an accumulator row could win a pivot search
+  // and fill the factors in).
   void factor(double h) {
     ++eval_.stats.factorisations;
     h_lu_ = h;
-    for (std::size_t i = 0; i < n_ * n_; ++i) lu_[i] = -kGamma * h * jac_[i];
-    for (std::size_t i = 0; i < n_; ++i) lu_[i * n_ + i] += 1.0;
+    const std::size_t m = m_;
+    for (std::size_t r = 0; r < m; ++r) {
+      for (std::size_t c = 0; c < m; ++c) lu_[r * m + c] = -kGamma * h * jac_[r * n_ + c];
+      lu_[r * m + r] += 1.0;
+    }
     // Doolittle LU with partial pivoting, in place.
-    for (std::size_t k = 0; k < n_; ++k) {
+    for (std::size_t k = 0; k < m; ++k) {
       std::size_t p = k;
-      double best = std::fabs(lu_[k * n_ + k]);
-      for (std::size_t i = k + 1; i < n_; ++i) {
-        const double v = std::fabs(lu_[i * n_ + k]);
+      double best = std::fabs(lu_[k * m + k]);
+      for (std::size_t i = k + 1; i < m; ++i) {
+        const double v = std::fabs(lu_[i * m + k]);
         if (v > best) {
           best = v;
           p = i;
@@ -288,35 +309,43 @@ class Ros2 final : public Integrator {
       }
       piv_[k] = p;
       if (p != k) {
-        for (std::size_t j = 0; j < n_; ++j) std::swap(lu_[k * n_ + j], lu_[p * n_ + j]);
+        for (std::size_t j = 0; j < m; ++j) std::swap(lu_[k * m + j], lu_[p * m + j]);
       }
-      const double d = lu_[k * n_ + k];
+      const double d = lu_[k * m + k];
       if (d == 0.0) continue;
-      for (std::size_t i = k + 1; i < n_; ++i) {
-        double& lik = lu_[i * n_ + k];
+      for (std::size_t i = k + 1; i < m; ++i) {
+        double& lik = lu_[i * m + k];
         if (lik == 0.0) continue;
         lik /= d;
-        const double* rk = &lu_[k * n_];
-        double* ri = &lu_[i * n_];
-        for (std::size_t j = k + 1; j < n_; ++j) ri[j] -= lik * rk[j];
+        const double* rk = &lu_[k * m];
+        double* ri = &lu_[i * m];
+        for (std::size_t j = k + 1; j < m; ++j) ri[j] -= lik * rk[j];
       }
     }
-    compress();
+    compress(h);
   }
 
   // The factors are stored again as sparse rows (W = I - gamma h J is
   // sparse, and so mostly are its factors): the two solves per step then
-  // cost a fraction of dense triangular solves.
-  void compress() {
+  // cost a fraction of dense triangular solves. The row exchanges become one
+  // gather (perm_), and the accumulator rows gamma h J_acc are kept sparse.
+  void compress(double h) {
+    const std::size_t m = m_;
     l_start_.assign(1, 0);
     u_start_.assign(1, 0);
+    a_start_.assign(1, 0);
     l_col_.clear();
     l_val_.clear();
     u_col_.clear();
     u_val_.clear();
-    diag_inv_.resize(n_);
-    for (std::size_t i = 0; i < n_; ++i) {
-      const double* ri = &lu_[i * n_];
+    a_col_.clear();
+    a_val_.clear();
+    diag_inv_.resize(m);
+    perm_.resize(m);
+    for (std::size_t i = 0; i < m; ++i) perm_[i] = i;
+    for (std::size_t k = 0; k < m; ++k) std::swap(perm_[k], perm_[piv_[k]]);
+    for (std::size_t i = 0; i < m; ++i) {
+      const double* ri = &lu_[i * m];
       for (std::size_t j = 0; j < i; ++j) {
         if (ri[j] != 0.0) {
           l_col_.push_back(j);
@@ -324,7 +353,7 @@ class Ros2 final : public Integrator {
         }
       }
       l_start_.push_back(l_col_.size());
-      for (std::size_t j = i + 1; j < n_; ++j) {
+      for (std::size_t j = i + 1; j < m; ++j) {
         if (ri[j] != 0.0) {
           u_col_.push_back(j);
           u_val_.push_back(ri[j]);
@@ -333,20 +362,35 @@ class Ros2 final : public Integrator {
       u_start_.push_back(u_col_.size());
       diag_inv_[i] = 1.0 / ri[i];
     }
+    for (std::size_t r = m; r < n_; ++r) {
+      for (std::size_t c = 0; c < m; ++c) {
+        const double v = jac_[r * n_ + c];
+        if (v != 0.0) {
+          a_col_.push_back(c);
+          a_val_.push_back(kGamma * h * v);
+        }
+      }
+      a_start_.push_back(a_col_.size());
+    }
   }
 
   void solve(const std::vector<double>& b, std::vector<double>& x) const {
-    x = b;
-    for (std::size_t k = 0; k < n_; ++k) std::swap(x[k], x[piv_[k]]);
-    for (std::size_t i = 1; i < n_; ++i) {
+    const std::size_t m = m_;
+    for (std::size_t i = 0; i < m; ++i) x[i] = b[perm_[i]];
+    for (std::size_t i = 1; i < m; ++i) {
       double s = x[i];
       for (std::size_t q = l_start_[i]; q < l_start_[i + 1]; ++q) s -= l_val_[q] * x[l_col_[q]];
       x[i] = s;
     }
-    for (std::size_t i = n_; i-- > 0;) {
+    for (std::size_t i = m; i-- > 0;) {
       double s = x[i];
       for (std::size_t q = u_start_[i]; q < u_start_[i + 1]; ++q) s -= u_val_[q] * x[u_col_[q]];
       x[i] = s * diag_inv_[i];
+    }
+    for (std::size_t r = m; r < n_; ++r) {
+      double s = b[r];
+      for (std::size_t q = a_start_[r - m]; q < a_start_[r - m + 1]; ++q) s += a_val_[q] * x[a_col_[q]];
+      x[r] = s;
     }
   }
 
@@ -355,8 +399,9 @@ class Ros2 final : public Integrator {
   double rtol_, atol_;
   std::vector<double> jac_, lu_;
   std::vector<std::size_t> piv_;
-  std::vector<std::size_t> l_start_, u_start_, l_col_, u_col_, j_start_, j_col_;
-  std::vector<double> l_val_, u_val_, diag_inv_, j_val_;
+  std::size_t m_;  // dynamic states: the accumulators are the last n_ - m_
+  std::vector<std::size_t> perm_, l_start_, u_start_, a_start_, l_col_, u_col_, a_col_, j_start_, j_col_;
+  std::vector<double> l_val_, u_val_, a_val_, diag_inv_, j_val_;
   std::vector<double> k1_, k2_, y1_, f_, f0_, ynew_;
   double h_ = 0.0;
   double h_lu_ = 0.0;
