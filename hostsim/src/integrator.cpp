@@ -214,6 +214,11 @@ class Ros2 final : public Integrator {
           jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
         }
       }
+      if (jac_miss > kJacobianMissReject || !std::isfinite(jac_miss)) {
+        ++eval_.stats.rejected;
+        jac_age_ = -1;  // same step again with a fresh Jacobian
+        continue;
+      }
       for (std::size_t i = 0; i < n_; ++i) f_[i] -= 2.0 * k1_[i];
       solve(f_, k2_);
       double err = 0.0;
@@ -222,11 +227,6 @@ class Ros2 final : public Integrator {
         const double e = hs * 0.5 * (k1_[i] + k2_[i]);
         const double sc = atol_ + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
         err = std::max(err, std::fabs(e) / sc);
-      }
-      if (jac_miss > kJacobianMissReject || !std::isfinite(jac_miss)) {
-        ++eval_.stats.rejected;
-        jac_age_ = -1;  // same step again with a fresh Jacobian
-        continue;
       }
       if (jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
       if (err <= 1.0 && std::isfinite(err)) {
@@ -245,7 +245,7 @@ class Ros2 final : public Integrator {
         ++eval_.stats.rejected;
         const double fac = std::isfinite(err) ? std::max(0.2, 0.9 / std::sqrt(err)) : 0.2;
         h = hs * fac;
-        if (jac_age_ > 0) jac_age_ = -1;  // a fresh Jacobian first
+        if (jac_age_ > 0 && jac_miss > kRejectRefresh) jac_age_ = -1;  // a fresh Jacobian first
         if (h < kMinStep) {
           h_ = 0.0;
           return false;
@@ -279,6 +279,7 @@ class Ros2 final : public Integrator {
   static constexpr double kMaxGrowth = 2.0;
   static constexpr double kJacobianMissReject = 3.0;   // in units of the tolerance
   static constexpr double kJacobianMissRefresh = 1.0;
+  static constexpr double kRejectRefresh = 0.5;
   static constexpr double kGamma = 1.0 + 0.70710678118654752440;
 
   // W = I - gamma h J is block lower triangular: the accumulators (pumped,

@@ -173,11 +173,14 @@ LaminarBlend laminar_blend(double transition_pa) {
   return LaminarBlend{transition_pa, 1.25 / st, 0.25 / (transition_pa * transition_pa * st)};
 }
 
+// Both laws are evaluated and one is selected, so the compiler can do without
+// a branch that flips unpredictably from element to element.
 inline double orifice_flow_k(double k, double area_m2, double dp_pa, const LaminarBlend& lb) {
   const double ka = k * area_m2;
   const double a = std::fabs(dp_pa);
-  if (a >= lb.pt) return dp_pa > 0.0 ? ka * std::sqrt(a) : -ka * std::sqrt(a);
-  return ka * dp_pa * (lb.c1 - lb.c3 * dp_pa * dp_pa);
+  const double turbulent = ka * std::copysign(std::sqrt(a), dp_pa);
+  const double laminar = ka * dp_pa * (lb.c1 - lb.c3 * dp_pa * dp_pa);
+  return a >= lb.pt ? turbulent : laminar;
 }
 
 }  // namespace
@@ -270,10 +273,13 @@ std::vector<ElementConstants> element_constants(const Network& net) {
   return c;
 }
 
-double element_flow(const Network& net, const StateLayout& layout, const Element& e,
-                    const ElementConstants& c, const std::vector<double>& p, const double* y) {
-  return element_flow_k(layout, e, c.k, c.inv, LaminarBlend{net.oil.laminar_transition_pa, c.laminar_c1, c.laminar_c3},
-                        p, y);
+void element_flows(const Network& net, const StateLayout& layout, const std::vector<ElementConstants>& constants,
+                   const std::vector<double>& p, const double* y, double* q) {
+  for (std::size_t j = 0; j < net.elements.size(); ++j) {
+    const ElementConstants& c = constants[j];
+    q[j] = element_flow_k(layout, net.elements[j], c.k, c.inv,
+                          LaminarBlend{net.oil.laminar_transition_pa, c.laminar_c1, c.laminar_c3}, p, y);
+  }
 }
 
 double element_flow(const Network& net, const StateLayout& layout, const Element& e,
@@ -389,7 +395,9 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
     dvdt_[b] -= cyl.area_b_m2 * v;
 
     double f = p_[a] * cyl.area_a_m2 - p_[b] * cyl.area_b_m2;
-    f -= cyl.coulomb_n * std::tanh(v * cyl_inv_[2 * c]) + cyl.viscous_n_s_m * v;
+    // tanh(u) rounds to +-1 for |u| >= 20, where the library call is skipped.
+    const double u = v * cyl_inv_[2 * c];
+    f -= cyl.coulomb_n * (std::fabs(u) >= 20.0 ? std::copysign(1.0, u) : std::tanh(u)) + cyl.viscous_n_s_m * v;
     f += load_force(cyl, in, c, t_s, x, v);
     // End stops: stiff spring-dampers that can only push back.
     if (x < 0.0) f += std::max(0.0, -cyl.end_stop_n_m * x - cyl.end_stop_n_s_m * v);

@@ -442,9 +442,8 @@ PlantSnapshot Plant::snapshot() const {
   *v++ = net_.pump.node >= 0
              ? pump_flow(net_.pump, inputs_, p_scratch_[static_cast<std::size_t>(net_.pump.node)]) * to_l_min
              : 0.0;
-  for (std::size_t j = 0; j < net_.elements.size(); ++j) {
-    *v++ = element_flow(net_, layout_, net_.elements[j], element_constants_[j], p_scratch_, y_.data()) * to_l_min;
-  }
+  element_flows(net_, layout_, element_constants_, p_scratch_, y_.data(), v);
+  for (std::size_t j = 0; j < net_.elements.size(); ++j) v[j] *= to_l_min;
   return s;
 }
 

@@ -375,6 +375,21 @@ TEST(PlantSolvers, Ros2AgreesWithOdeintRosenbrock4OnThePressCycle) {
   EXPECT_LT(worst_p, 1.8);  // 1 % of the 180 bar relief setting
 }
 
+// Same inputs, same outputs, bit for bit: the integrator's reuse of
+// Jacobians and factors depends only on the run's own history.
+TEST(PlantSolvers, Ros2IsDeterministic) {
+  Trace traces[2];
+  for (Trace& trace : traces) {
+    auto p = build(Rig{demo_machine(), demo_plant_json()});
+    ASSERT_TRUE(p);
+    ASSERT_TRUE(run_open_loop(*p, demo_press_cycle(), 1e-3, trace));
+  }
+  ASSERT_EQ(traces[0].rows.size(), traces[1].rows.size());
+  for (std::size_t i = 0; i < traces[0].rows.size(); ++i) {
+    ASSERT_EQ(traces[0].rows[i], traces[1].rows[i]) << "row " << i;
+  }
+}
+
 }  // namespace
 }  // namespace spoolstep::hostsim::test
 

@@ -219,9 +219,10 @@ struct ElementConstants {
 };
 std::vector<ElementConstants> element_constants(const Network& net);
 
-/// element_flow() with the element's constants given (the same value).
-double element_flow(const Network& net, const StateLayout& layout, const Element& element,
-                    const ElementConstants& constants, const std::vector<double>& p_pa, const double* y);
+/// element_flow() of every element (m^3/s) into q, with the elements'
+/// constants given (the same values, one call for all).
+void element_flows(const Network& net, const StateLayout& layout, const std::vector<ElementConstants>& constants,
+                   const std::vector<double>& p_pa, const double* y, double* q);
 
 /// Pressure (Pa) of one node for the state y (as node_pressures()).
 double node_pressure_of(const Network& net, const StateLayout& layout, std::size_t node, const double* y);
