@@ -24,6 +24,67 @@ bool time_dependent(const Network& net) {
   return false;
 }
 
+/// Which rows of f each dynamic state (column) can change, read off the
+/// network's structure (a superset of the nonzeros of J, whatever the
+/// state). The compressed-oil accumulator's row is left out: it depends on
+/// everything and is derived from the other rows (see Evaluator).
+std::vector<std::vector<std::size_t>> jacobian_pattern(const Network& net, const StateLayout& L) {
+  std::vector<std::vector<std::size_t>> rows(L.pumped);
+  auto add = [&rows](int col, int row) {
+    if (col >= 0 && row >= 0) rows[static_cast<std::size_t>(col)].push_back(static_cast<std::size_t>(row));
+  };
+  auto node_row = [&L](int node) { return node < 0 ? -1 : L.node_state[static_cast<std::size_t>(node)]; };
+  const int returned = static_cast<int>(L.returned);
+  for (std::size_t i = 0; i < net.nodes.size(); ++i) {
+    add(node_row(static_cast<int>(i)), node_row(static_cast<int>(i)));  // bulk modulus, cavitation
+  }
+  for (const Element& e : net.elements) {
+    // The flow depends on both end pressures, a pilot pressure and a spool.
+    const int cols[4] = {node_row(e.from), node_row(e.to), node_row(e.pilot),
+                         e.kind == ElementKind::kSpoolEdge
+                             ? static_cast<int>(L.spool_state[static_cast<std::size_t>(e.spool)])
+                             : -1};
+    const bool to_fixed = net.nodes[static_cast<std::size_t>(e.to)].fixed;
+    const bool from_fixed = net.nodes[static_cast<std::size_t>(e.from)].fixed;
+    for (const int c : cols) {
+      add(c, node_row(e.from));
+      add(c, node_row(e.to));
+      if (to_fixed || from_fixed) add(c, returned);
+    }
+  }
+  if (net.pump.node >= 0) {
+    add(node_row(net.pump.node), node_row(net.pump.node));
+    add(node_row(net.pump.node), static_cast<int>(L.pumped));
+  }
+  for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+    const Cylinder& cyl = net.cylinders[c];
+    const int x = static_cast<int>(L.first_cylinder + 2 * c);
+    const int v = x + 1;
+    const int a = node_row(cyl.node_a);
+    const int b = node_row(cyl.node_b);
+    for (const int col : {x, v, a, b}) {  // chamber volumes and dV/dt, force, piston leak
+      add(col, a);
+      add(col, b);
+      add(col, v);
+    }
+    add(v, x);  // dx/dt = v
+  }
+  for (std::size_t s = 0; s < net.spools.size(); ++s) {
+    const int k = static_cast<int>(L.spool_state[s]);
+    add(k, k);
+    if (net.spools[s].dynamics == SpoolDynamics::kSecondOrder) {
+      add(k, k + 1);
+      add(k + 1, k);
+      add(k + 1, k + 1);
+    }
+  }
+  for (auto& r : rows) {
+    std::sort(r.begin(), r.end());
+    r.erase(std::unique(r.begin(), r.end()), r.end());
+  }
+  return rows;
+}
+
 /// Shared part: the right-hand side and a finite-difference Jacobian over
 /// the dynamic states (the accumulators feed nothing back, so their columns
 /// are zero).
@@ -31,7 +92,64 @@ class Evaluator {
  public:
   Evaluator(const Network& net, const StateLayout& layout)
       : rhs_(net, layout), n_(layout.size), n_dyn_(layout.pumped), f0_(n_), f1_(n_), x_(n_),
-        time_dependent_(time_dependent(net)) {}
+        time_dependent_(time_dependent(net)), rows_of_(jacobian_pattern(net, layout)),
+        pumped_(layout.pumped), returned_(layout.returned), compressed_(layout.compressed),
+        displaced_(layout.pumped, 0.0) {
+    // Column groups: states that change no common row are perturbed together
+    // (greedy, in state order, so deterministic).
+    std::vector<std::vector<bool>> used;
+    for (std::size_t j = 0; j < n_dyn_; ++j) {
+      std::size_t g = 0;
+      for (; g < groups_.size(); ++g) {
+        bool clash = false;
+        for (const std::size_t r : rows_of_[j]) clash = clash || used[g][r];
+        if (!clash) break;
+      }
+      if (g == groups_.size()) {
+        groups_.emplace_back();
+        used.emplace_back(n_, false);
+      }
+      groups_[g].push_back(j);
+      for (const std::size_t r : rows_of_[j]) used[g][r] = true;
+    }
+    // d(compressed)/dt = d(pumped)/dt - d(returned)/dt - sum (A_A - A_B) v
+    // in state units (cm^3/s, v in mm/s).
+    for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+      displaced_[layout.first_cylinder + 2 * c + 1] =
+          (net.cylinders[c].area_a_m2 - net.cylinders[c].area_b_m2) * kLengthScale / kVolumeScale;
+    }
+  }
+
+  /// J (dense, row-major n x n) by finite differences with grouped columns:
+  /// one right-hand side per group of states that change no common row
+  /// (about half as many as states), each entry exactly the one a single
+  /// column difference gives. The compressed-oil row is not differenced but
+  /// derived from the identity d(compressed)/dt = d(pumped)/dt -
+  /// d(returned)/dt - sum (A_A - A_B) v, so that the oil balance invariant
+  /// holds for J exactly as for f (a grouped difference could not separate
+  /// that row, which depends on every state). f0 = f(t, y) on return.
+  void grouped_jacobian(const NetworkInputs& in, double t, const double* y, double* jac) {
+    ++stats.jacobians;
+    std::copy(y, y + n_, x_.begin());
+    rhs(in, t, x_.data(), f0_.data());
+    std::fill(jac, jac + n_ * n_, 0.0);
+    for (const std::vector<std::size_t>& group : groups_) {
+      for (const std::size_t j : group) {
+        const double xj = x_[j];
+        x_[j] = xj + 1.5e-8 * std::max(std::fabs(xj), 1.0);
+      }
+      rhs(in, t, x_.data(), f1_.data());
+      for (const std::size_t j : group) {
+        const double xj = y[j];
+        const double hh = x_[j] - xj;
+        x_[j] = xj;
+        for (const std::size_t r : rows_of_[j]) jac[r * n_ + j] = (f1_[r] - f0_[r]) / hh;
+      }
+    }
+    for (std::size_t j = 0; j < n_dyn_; ++j) {
+      jac[compressed_ * n_ + j] = jac[pumped_ * n_ + j] - jac[returned_ * n_ + j] - displaced_[j];
+    }
+  }
 
   void rhs(const NetworkInputs& in, double t, const double* y, double* dydt) {
     ++stats.rhs_calls;
@@ -78,6 +196,10 @@ class Evaluator {
   std::size_t n_dyn_;
   std::vector<double> f0_, f1_, x_;
   bool time_dependent_;
+  std::vector<std::vector<std::size_t>> rows_of_;  // per dynamic state: rows it can change
+  std::vector<std::vector<std::size_t>> groups_;   // states perturbed together
+  std::size_t pumped_, returned_, compressed_;
+  std::vector<double> displaced_;  // per dynamic state: d(displaced volume rate)/d(state)
 };
 
 // ---------------------------------------------------------------------------
@@ -162,6 +284,9 @@ class Ros2 final : public Integrator {
   bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                   const std::function<void(double, const std::vector<double>&)>& on_step) override {
     double h = h_ > 0.0 ? h_ : kFirstStep;
+    // f0_ = f(t, y) is known after a Jacobian (its base point) and after a
+    // rejected step (same t and y), so it is not evaluated again then.
+    bool f0_known = false;
     while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
       const double remaining = t_end - t;
       const bool last = h >= remaining * (1.0 - 1e-9);
@@ -175,10 +300,11 @@ class Ros2 final : public Integrator {
         dt = remaining / pieces;
       }
       if (jac_age_ < 0) {
-        eval_.jacobian(in, t, y.data(), [this](std::size_t r, std::size_t c, double v) { jac_[r * n_ + c] = v; },
-                       nullptr);
+        eval_.grouped_jacobian(in, t, y.data(), jac_.data());
         jac_age_ = 0;
         h_lu_ = 0.0;
+        std::copy(eval_.f0().begin(), eval_.f0().end(), f0_.begin());
+        f0_known = true;
         // Nonzeros of J by row, for the Jacobian check's product J k1.
         j_start_.assign(1, 0);
         j_col_.clear();
@@ -195,7 +321,8 @@ class Ros2 final : public Integrator {
       }
       if (!(dt >= kLuLow * h_lu_ && dt <= kLuHigh * h_lu_)) factor(dt);
       const double hs = dt;
-      eval_.rhs(in, t, y.data(), f0_.data());
+      if (!f0_known) eval_.rhs(in, t, y.data(), f0_.data());
+      f0_known = true;
       solve(f0_, k1_);
       for (std::size_t i = 0; i < n_; ++i) y1_[i] = y[i] + hs * k1_[i];
       eval_.rhs(in, t + hs, y1_.data(), f_.data());
@@ -232,6 +359,7 @@ class Ros2 final : public Integrator {
       if (err <= 1.0 && std::isfinite(err)) {
         ++eval_.stats.accepted;
         std::copy(ynew_.begin(), ynew_.end(), y.begin());
+        f0_known = false;
         t = last ? t_end : t + hs;
         if (on_step) on_step(t, y);
         ++jac_age_;

@@ -323,6 +323,7 @@ TEST(PlantBalance, OilMassBalanceHoldsOverThePressCycle) {
   const OilBalance b = p->oil_balance();
   EXPECT_GT(b.pumped_m3, 1e-3);
   // pumped = returned + displaced + compressed, to 1e-6 relative.
+  std::printf("[ figure   ] oil balance relative residual %.1e\n", b.relative_residual());
   EXPECT_LT(std::fabs(b.relative_residual()), 1e-6);
 }
 
