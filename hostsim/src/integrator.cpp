@@ -24,6 +24,67 @@ bool time_dependent(const Network& net) {
   return false;
 }
 
+/// Which rows of f each dynamic state (column) can change, read off the
+/// network's structure (a superset of the nonzeros of J, whatever the
+/// state). The compressed-oil accumulator's row is left out: it depends on
+/// everything and is derived from the other rows (see Evaluator).
+std::vector<std::vector<std::size_t>> jacobian_pattern(const Network& net, const StateLayout& L) {
+  std::vector<std::vector<std::size_t>> rows(L.pumped);
+  auto add = [&rows](int col, int row) {
+    if (col >= 0 && row >= 0) rows[static_cast<std::size_t>(col)].push_back(static_cast<std::size_t>(row));
+  };
+  auto node_row = [&L](int node) { return node < 0 ? -1 : L.node_state[static_cast<std::size_t>(node)]; };
+  const int returned = static_cast<int>(L.returned);
+  for (std::size_t i = 0; i < net.nodes.size(); ++i) {
+    add(node_row(static_cast<int>(i)), node_row(static_cast<int>(i)));  // bulk modulus, cavitation
+  }
+  for (const Element& e : net.elements) {
+    // The flow depends on both end pressures, a pilot pressure and a spool.
+    const int cols[4] = {node_row(e.from), node_row(e.to), node_row(e.pilot),
+                         e.kind == ElementKind::kSpoolEdge
+                             ? static_cast<int>(L.spool_state[static_cast<std::size_t>(e.spool)])
+                             : -1};
+    const bool to_fixed = net.nodes[static_cast<std::size_t>(e.to)].fixed;
+    const bool from_fixed = net.nodes[static_cast<std::size_t>(e.from)].fixed;
+    for (const int c : cols) {
+      add(c, node_row(e.from));
+      add(c, node_row(e.to));
+      if (to_fixed || from_fixed) add(c, returned);
+    }
+  }
+  if (net.pump.node >= 0) {
+    add(node_row(net.pump.node), node_row(net.pump.node));
+    add(node_row(net.pump.node), static_cast<int>(L.pumped));
+  }
+  for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+    const Cylinder& cyl = net.cylinders[c];
+    const int x = static_cast<int>(L.first_cylinder + 2 * c);
+    const int v = x + 1;
+    const int a = node_row(cyl.node_a);
+    const int b = node_row(cyl.node_b);
+    for (const int col : {x, v, a, b}) {  // chamber volumes and dV/dt, force, piston leak
+      add(col, a);
+      add(col, b);
+      add(col, v);
+    }
+    add(v, x);  // dx/dt = v
+  }
+  for (std::size_t s = 0; s < net.spools.size(); ++s) {
+    const int k = static_cast<int>(L.spool_state[s]);
+    add(k, k);
+    if (net.spools[s].dynamics == SpoolDynamics::kSecondOrder) {
+      add(k, k + 1);
+      add(k + 1, k);
+      add(k + 1, k + 1);
+    }
+  }
+  for (auto& r : rows) {
+    std::sort(r.begin(), r.end());
+    r.erase(std::unique(r.begin(), r.end()), r.end());
+  }
+  return rows;
+}
+
 /// Shared part: the right-hand side and a finite-difference Jacobian over
 /// the dynamic states (the accumulators feed nothing back, so their columns
 /// are zero).
@@ -31,7 +92,64 @@ class Evaluator {
  public:
   Evaluator(const Network& net, const StateLayout& layout)
       : rhs_(net, layout), n_(layout.size), n_dyn_(layout.pumped), f0_(n_), f1_(n_), x_(n_),
-        time_dependent_(time_dependent(net)) {}
+        time_dependent_(time_dependent(net)), rows_of_(jacobian_pattern(net, layout)),
+        pumped_(layout.pumped), returned_(layout.returned), compressed_(layout.compressed),
+        displaced_(layout.pumped, 0.0) {
+    // Column groups: states that change no common row are perturbed together
+    // (greedy, in state order, so deterministic).
+    std::vector<std::vector<bool>> used;
+    for (std::size_t j = 0; j < n_dyn_; ++j) {
+      std::size_t g = 0;
+      for (; g < groups_.size(); ++g) {
+        bool clash = false;
+        for (const std::size_t r : rows_of_[j]) clash = clash || used[g][r];
+        if (!clash) break;
+      }
+      if (g == groups_.size()) {
+        groups_.emplace_back();
+        used.emplace_back(n_, false);
+      }
+      groups_[g].push_back(j);
+      for (const std::size_t r : rows_of_[j]) used[g][r] = true;
+    }
+    // d(compressed)/dt = d(pumped)/dt - d(returned)/dt - sum (A_A - A_B) v
+    // in state units (cm^3/s, v in mm/s).
+    for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+      displaced_[layout.first_cylinder + 2 * c + 1] =
+          (net.cylinders[c].area_a_m2 - net.cylinders[c].area_b_m2) * kLengthScale / kVolumeScale;
+    }
+  }
+
+  /// J (dense, row-major n x n) by finite differences with grouped columns:
+  /// one right-hand side per group of states that change no common row
+  /// (about half as many as states), each entry exactly the one a single
+  /// column difference gives. The compressed-oil row is not differenced but
+  /// derived from the identity d(compressed)/dt = d(pumped)/dt -
+  /// d(returned)/dt - sum (A_A - A_B) v, so that the oil balance invariant
+  /// holds for J exactly as for f (a grouped difference could not separate
+  /// that row, which depends on every state). f0 = f(t, y) on return.
+  void grouped_jacobian(const NetworkInputs& in, double t, const double* y, double* jac) {
+    ++stats.jacobians;
+    std::copy(y, y + n_, x_.begin());
+    rhs(in, t, x_.data(), f0_.data());
+    std::fill(jac, jac + n_ * n_, 0.0);
+    for (const std::vector<std::size_t>& group : groups_) {
+      for (const std::size_t j : group) {
+        const double xj = x_[j];
+        x_[j] = xj + 1.5e-8 * std::max(std::fabs(xj), 1.0);
+      }
+      rhs(in, t, x_.data(), f1_.data());
+      for (const std::size_t j : group) {
+        const double xj = y[j];
+        const double hh = x_[j] - xj;
+        x_[j] = xj;
+        for (const std::size_t r : rows_of_[j]) jac[r * n_ + j] = (f1_[r] - f0_[r]) / hh;
+      }
+    }
+    for (std::size_t j = 0; j < n_dyn_; ++j) {
+      jac[compressed_ * n_ + j] = jac[pumped_ * n_ + j] - jac[returned_ * n_ + j] - displaced_[j];
+    }
+  }
 
   void rhs(const NetworkInputs& in, double t, const double* y, double* dydt) {
     ++stats.rhs_calls;
@@ -78,6 +196,10 @@ class Evaluator {
   std::size_t n_dyn_;
   std::vector<double> f0_, f1_, x_;
   bool time_dependent_;
+  std::vector<std::vector<std::size_t>> rows_of_;  // per dynamic state: rows it can change
+  std::vector<std::vector<std::size_t>> groups_;   // states perturbed together
+  std::size_t pumped_, returned_, compressed_;
+  std::vector<double> displaced_;  // per dynamic state: d(displaced volume rate)/d(state)
 };
 
 // ---------------------------------------------------------------------------
@@ -157,20 +279,32 @@ class Ros2 final : public Integrator {
  public:
   Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
       : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
-        lu_(n_ * n_), piv_(n_), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
+        lu_(n_ * n_), piv_(n_), m_(layout.pumped), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
   bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                   const std::function<void(double, const std::vector<double>&)>& on_step) override {
     double h = h_ > 0.0 ? h_ : kFirstStep;
+    // f0_ = f(t, y) is known after a Jacobian (its base point) and after a
+    // rejected step (same t and y), so it is not evaluated again then.
+    bool f0_known = false;
     while (t_end - t > 1e-12 * std::max(1.0, std::fabs(t_end))) {
       const double remaining = t_end - t;
       const bool last = h >= remaining * (1.0 - 1e-9);
-      const double dt = last ? remaining : h;
+      // The rest of the period is split into equal steps no longer than h:
+      // step sizes then repeat from period to period (period/1, period/2,
+      // ...), so the LU factors of W are reused instead of being redone
+      // for a short last step in every period.
+      double dt = remaining;
+      if (!last) {
+        const double pieces = std::ceil(remaining / h * (1.0 - 1e-9));
+        dt = remaining / pieces;
+      }
       if (jac_age_ < 0) {
-        eval_.jacobian(in, t, y.data(), [this](std::size_t r, std::size_t c, double v) { jac_[r * n_ + c] = v; },
-                       nullptr);
+        eval_.grouped_jacobian(in, t, y.data(), jac_.data());
         jac_age_ = 0;
         h_lu_ = 0.0;
+        std::copy(eval_.f0().begin(), eval_.f0().end(), f0_.begin());
+        f0_known = true;
         // Nonzeros of J by row, for the Jacobian check's product J k1.
         j_start_.assign(1, 0);
         j_col_.clear();
@@ -187,7 +321,8 @@ class Ros2 final : public Integrator {
       }
       if (!(dt >= kLuLow * h_lu_ && dt <= kLuHigh * h_lu_)) factor(dt);
       const double hs = dt;
-      eval_.rhs(in, t, y.data(), f0_.data());
+      if (!f0_known) eval_.rhs(in, t, y.data(), f0_.data());
+      f0_known = true;
       solve(f0_, k1_);
       for (std::size_t i = 0; i < n_; ++i) y1_[i] = y[i] + hs * k1_[i];
       eval_.rhs(in, t + hs, y1_.data(), f_.data());
@@ -206,6 +341,11 @@ class Ros2 final : public Integrator {
           jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
         }
       }
+      if (jac_miss > kJacobianMissReject || !std::isfinite(jac_miss)) {
+        ++eval_.stats.rejected;
+        jac_age_ = -1;  // same step again with a fresh Jacobian
+        continue;
+      }
       for (std::size_t i = 0; i < n_; ++i) f_[i] -= 2.0 * k1_[i];
       solve(f_, k2_);
       double err = 0.0;
@@ -215,15 +355,11 @@ class Ros2 final : public Integrator {
         const double sc = atol_ + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
         err = std::max(err, std::fabs(e) / sc);
       }
-      if (jac_miss > kJacobianMissReject || !std::isfinite(jac_miss)) {
-        ++eval_.stats.rejected;
-        jac_age_ = -1;  // same step again with a fresh Jacobian
-        continue;
-      }
       if (jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
       if (err <= 1.0 && std::isfinite(err)) {
         ++eval_.stats.accepted;
         std::copy(ynew_.begin(), ynew_.end(), y.begin());
+        f0_known = false;
         t = last ? t_end : t + hs;
         if (on_step) on_step(t, y);
         ++jac_age_;
@@ -237,7 +373,7 @@ class Ros2 final : public Integrator {
         ++eval_.stats.rejected;
         const double fac = std::isfinite(err) ? std::max(0.2, 0.9 / std::sqrt(err)) : 0.2;
         h = hs * fac;
-        if (jac_age_ > 0) jac_age_ = -1;  // a fresh Jacobian first
+        if (jac_age_ > 0 && jac_miss > kRejectRefresh) jac_age_ = -1;  // a fresh Jacobian first
         if (h < kMinStep) {
           h_ = 0.0;
           return false;
@@ -253,34 +389,48 @@ class Ros2 final : public Integrator {
     jac_age_ = -1;
   }
   // A stale Jacobian can hide errors from the estimate (a spool whose rate
-  // saturates after a command step would crawl), so inputs changes refresh it.
+  // saturates after a command step would crawl), so input changes that alter
+  // df/dy refresh it (the plant leaves out those that cannot).
   void do_inputs_changed() override { jac_age_ = -1; }
 
  private:
   // Tuned on the demo press cycle against the Radau reference
-  // (docs/plant-model.md): a Jacobian older than 20 steps is refreshed, a
+  // (docs/plant-model.md): a Jacobian older than 100 steps is refreshed
+  // (the Jacobian check below catches a stale one much earlier where it
+  // matters; 20 cost a Jacobian every 20 quiet periods for nothing), a
   // factorisation is reused while the step stays within 10 % of the step it
   // was made for (any W keeps the order; the margin keeps the stability),
   // and the step grows by at most 2x per step.
-  static constexpr int kMaxJacobianAge = 20;
+  static constexpr int kMaxJacobianAge = 100;
   static constexpr double kLuLow = 0.9;
   static constexpr double kLuHigh = 1.1;
   static constexpr double kMaxGrowth = 2.0;
   static constexpr double kJacobianMissReject = 3.0;   // in units of the tolerance
   static constexpr double kJacobianMissRefresh = 1.0;
+  static constexpr double kRejectRefresh = 0.5;
   static constexpr double kGamma = 1.0 + 0.70710678118654752440;
 
+  // W = I - gamma h J is block lower triangular: the accumulators (pumped,
+  // returned, compressed oil; the last states) feed nothing back, so their
+  // columns of J are zero and their block of W is the identity. Only the
+  // dynamic block (m = n - 3 states) is factorised; the accumulators follow
+  // from k_acc = b_acc + gamma h J_acc k_dyn. Partial pivoting stays inside
+  // the dynamic block (before, an accumulator row could win a pivot search
+  // and fill the factors in).
   void factor(double h) {
     ++eval_.stats.factorisations;
     h_lu_ = h;
-    for (std::size_t i = 0; i < n_ * n_; ++i) lu_[i] = -kGamma * h * jac_[i];
-    for (std::size_t i = 0; i < n_; ++i) lu_[i * n_ + i] += 1.0;
+    const std::size_t m = m_;
+    for (std::size_t r = 0; r < m; ++r) {
+      for (std::size_t c = 0; c < m; ++c) lu_[r * m + c] = -kGamma * h * jac_[r * n_ + c];
+      lu_[r * m + r] += 1.0;
+    }
     // Doolittle LU with partial pivoting, in place.
-    for (std::size_t k = 0; k < n_; ++k) {
+    for (std::size_t k = 0; k < m; ++k) {
       std::size_t p = k;
-      double best = std::fabs(lu_[k * n_ + k]);
-      for (std::size_t i = k + 1; i < n_; ++i) {
-        const double v = std::fabs(lu_[i * n_ + k]);
+      double best = std::fabs(lu_[k * m + k]);
+      for (std::size_t i = k + 1; i < m; ++i) {
+        const double v = std::fabs(lu_[i * m + k]);
         if (v > best) {
           best = v;
           p = i;
@@ -288,35 +438,43 @@ class Ros2 final : public Integrator {
       }
       piv_[k] = p;
       if (p != k) {
-        for (std::size_t j = 0; j < n_; ++j) std::swap(lu_[k * n_ + j], lu_[p * n_ + j]);
+        for (std::size_t j = 0; j < m; ++j) std::swap(lu_[k * m + j], lu_[p * m + j]);
       }
-      const double d = lu_[k * n_ + k];
+      const double d = lu_[k * m + k];
       if (d == 0.0) continue;
-      for (std::size_t i = k + 1; i < n_; ++i) {
-        double& lik = lu_[i * n_ + k];
+      for (std::size_t i = k + 1; i < m; ++i) {
+        double& lik = lu_[i * m + k];
         if (lik == 0.0) continue;
         lik /= d;
-        const double* rk = &lu_[k * n_];
-        double* ri = &lu_[i * n_];
-        for (std::size_t j = k + 1; j < n_; ++j) ri[j] -= lik * rk[j];
+        const double* rk = &lu_[k * m];
+        double* ri = &lu_[i * m];
+        for (std::size_t j = k + 1; j < m; ++j) ri[j] -= lik * rk[j];
       }
     }
-    compress();
+    compress(h);
   }
 
   // The factors are stored again as sparse rows (W = I - gamma h J is
   // sparse, and so mostly are its factors): the two solves per step then
-  // cost a fraction of dense triangular solves.
-  void compress() {
+  // cost a fraction of dense triangular solves. The row exchanges become one
+  // gather (perm_), and the accumulator rows gamma h J_acc are kept sparse.
+  void compress(double h) {
+    const std::size_t m = m_;
     l_start_.assign(1, 0);
     u_start_.assign(1, 0);
+    a_start_.assign(1, 0);
     l_col_.clear();
     l_val_.clear();
     u_col_.clear();
     u_val_.clear();
-    diag_inv_.resize(n_);
-    for (std::size_t i = 0; i < n_; ++i) {
-      const double* ri = &lu_[i * n_];
+    a_col_.clear();
+    a_val_.clear();
+    diag_inv_.resize(m);
+    perm_.resize(m);
+    for (std::size_t i = 0; i < m; ++i) perm_[i] = i;
+    for (std::size_t k = 0; k < m; ++k) std::swap(perm_[k], perm_[piv_[k]]);
+    for (std::size_t i = 0; i < m; ++i) {
+      const double* ri = &lu_[i * m];
       for (std::size_t j = 0; j < i; ++j) {
         if (ri[j] != 0.0) {
           l_col_.push_back(j);
@@ -324,7 +482,7 @@ class Ros2 final : public Integrator {
         }
       }
       l_start_.push_back(l_col_.size());
-      for (std::size_t j = i + 1; j < n_; ++j) {
+      for (std::size_t j = i + 1; j < m; ++j) {
         if (ri[j] != 0.0) {
           u_col_.push_back(j);
           u_val_.push_back(ri[j]);
@@ -333,20 +491,35 @@ class Ros2 final : public Integrator {
       u_start_.push_back(u_col_.size());
       diag_inv_[i] = 1.0 / ri[i];
     }
+    for (std::size_t r = m; r < n_; ++r) {
+      for (std::size_t c = 0; c < m; ++c) {
+        const double v = jac_[r * n_ + c];
+        if (v != 0.0) {
+          a_col_.push_back(c);
+          a_val_.push_back(kGamma * h * v);
+        }
+      }
+      a_start_.push_back(a_col_.size());
+    }
   }
 
   void solve(const std::vector<double>& b, std::vector<double>& x) const {
-    x = b;
-    for (std::size_t k = 0; k < n_; ++k) std::swap(x[k], x[piv_[k]]);
-    for (std::size_t i = 1; i < n_; ++i) {
+    const std::size_t m = m_;
+    for (std::size_t i = 0; i < m; ++i) x[i] = b[perm_[i]];
+    for (std::size_t i = 1; i < m; ++i) {
       double s = x[i];
       for (std::size_t q = l_start_[i]; q < l_start_[i + 1]; ++q) s -= l_val_[q] * x[l_col_[q]];
       x[i] = s;
     }
-    for (std::size_t i = n_; i-- > 0;) {
+    for (std::size_t i = m; i-- > 0;) {
       double s = x[i];
       for (std::size_t q = u_start_[i]; q < u_start_[i + 1]; ++q) s -= u_val_[q] * x[u_col_[q]];
       x[i] = s * diag_inv_[i];
+    }
+    for (std::size_t r = m; r < n_; ++r) {
+      double s = b[r];
+      for (std::size_t q = a_start_[r - m]; q < a_start_[r - m + 1]; ++q) s += a_val_[q] * x[a_col_[q]];
+      x[r] = s;
     }
   }
 
@@ -355,8 +528,9 @@ class Ros2 final : public Integrator {
   double rtol_, atol_;
   std::vector<double> jac_, lu_;
   std::vector<std::size_t> piv_;
-  std::vector<std::size_t> l_start_, u_start_, l_col_, u_col_, j_start_, j_col_;
-  std::vector<double> l_val_, u_val_, diag_inv_, j_val_;
+  std::size_t m_;  // dynamic states: the accumulators are the last n_ - m_
+  std::vector<std::size_t> perm_, l_start_, u_start_, a_start_, l_col_, u_col_, a_col_, j_start_, j_col_;
+  std::vector<double> l_val_, u_val_, a_val_, diag_inv_, j_val_;
   std::vector<double> k1_, k2_, y1_, f_, f0_, ynew_;
   double h_ = 0.0;
   double h_lu_ = 0.0;

@@ -106,21 +106,81 @@ double physical_pressure_at(const OilModel& oil, double p_state_pa, double f) {
   return f * f / (2.0 * f - s_abs) - oil.atmospheric_pa;
 }
 
-double pressure_state_rate_at(const OilModel& oil, double p_state_pa, double volume_m3, double net_flow_m3_s,
-                              double f) {
+// The state rate with the oil's constants precomputed: f = the cavitation
+// floor, inv_beta = 1/beta_oil, air_patm = a * p_atm. Above the floor it is
+// beta_e/V * Q with 1/beta_e = inv_beta + air_patm/p_abs^2 (the law of
+// effective_bulk_modulus()), written with one division.
+inline double pressure_state_rate_at(const OilModel& oil, double p_state_pa, double volume_m3,
+                                     double net_flow_m3_s, double f, double inv_beta, double air_patm) {
   const double s_abs = p_state_pa + oil.atmospheric_pa;
-  if (s_abs >= f) return effective_bulk_modulus(oil, p_state_pa) / volume_m3 * net_flow_m3_s;
-  const double air = std::max(oil.air_fraction, kMinAirFraction);
+  if (s_abs >= f) {
+    const double p2 = s_abs * s_abs;
+    return net_flow_m3_s * p2 / (volume_m3 * (p2 * inv_beta + air_patm));
+  }
   const double p_abs = f * f / (2.0 * f - s_abs);
-  return net_flow_m3_s / volume_m3 * f * f / (p_abs * p_abs / oil.bulk_modulus_pa + air * oil.atmospheric_pa);
+  return net_flow_m3_s / volume_m3 * f * f / (p_abs * p_abs * inv_beta + air_patm);
 }
 
-double orifice_flow_k(double k, double area_m2, double dp_pa, double transition_pa) {
+double air_times_patm(const OilModel& oil) {
+  return std::max(oil.air_fraction, kMinAirFraction) * oil.atmospheric_pa;
+}
+
+// The reciprocal an element's law divides by, computed once per element
+// (the right-hand side runs ~100 000 times per simulated minute; a
+// multiplication is several times cheaper than a division there):
+// spool edges 1/(1 - overlap) or 1/centre width, checks 1/full-open span,
+// relief 1/override gradient.
+double element_inverse(const Element& e) {
+  switch (e.kind) {
+    case ElementKind::kSpoolEdge:
+      return e.opening == EdgeOpening::kCentre ? 1.0 / e.centre_width : 1.0 / (1.0 - e.overlap);
+    case ElementKind::kCheck:
+      return 1.0 / e.full_open_span_pa;
+    case ElementKind::kRelief:
+      return 1.0 / e.override_pa_s_m3;
+    case ElementKind::kOrifice:
+    case ElementKind::kLaminar:
+      break;
+  }
+  return 0.0;
+}
+
+// Open area of a spool edge; inv = element_inverse(edge).
+inline double edge_area_inv(const Element& edge, double spool_position, double inv) {
+  const double s = std::clamp(spool_position, -1.0, 1.0);
+  double frac = 0.0;
+  switch (edge.opening) {
+    case EdgeOpening::kPositive:
+      frac = clamp01((s - edge.overlap) * inv);
+      break;
+    case EdgeOpening::kNegative:
+      frac = clamp01((-s - edge.overlap) * inv);
+      break;
+    case EdgeOpening::kCentre:
+      frac = clamp01(1.0 - std::fabs(s) * inv);
+      break;
+  }
+  return edge.area_m2 * frac + edge.leak_area_m2;
+}
+
+// The laminar blend's constants for transition pressure pt: c1 = 1.25/sqrt(pt),
+// c3 = 0.25/(pt^2 sqrt(pt)), so the blend needs no division per call.
+struct LaminarBlend {
+  double pt, c1, c3;
+};
+LaminarBlend laminar_blend(double transition_pa) {
+  const double st = std::sqrt(transition_pa);
+  return LaminarBlend{transition_pa, 1.25 / st, 0.25 / (transition_pa * transition_pa * st)};
+}
+
+// Both laws are evaluated and one is selected, so the compiler can do without
+// a branch that flips unpredictably from element to element.
+inline double orifice_flow_k(double k, double area_m2, double dp_pa, const LaminarBlend& lb) {
   const double ka = k * area_m2;
   const double a = std::fabs(dp_pa);
-  if (a >= transition_pa) return dp_pa > 0.0 ? ka * std::sqrt(a) : -ka * std::sqrt(a);
-  const double st = std::sqrt(transition_pa);
-  return ka * (1.25 * dp_pa / st - 0.25 * dp_pa * dp_pa * dp_pa / (transition_pa * transition_pa * st));
+  const double turbulent = ka * std::copysign(std::sqrt(a), dp_pa);
+  const double laminar = ka * dp_pa * (lb.c1 - lb.c3 * dp_pa * dp_pa);
+  return a >= lb.pt ? turbulent : laminar;
 }
 
 }  // namespace
@@ -139,7 +199,8 @@ double pressure_state_rate(const OilModel& oil, double p_state_pa, double volume
   // Pressure build-up dp/dt = beta/V (Q_in - dV/dt) (check-values 4.13 [SRC]).
   // Below the floor: ds/dt = (dp/dt) / (dp/ds), dp/ds = p_abs^2 / f^2,
   // written so that it stays finite as p_abs -> 0.
-  return pressure_state_rate_at(oil, p_state_pa, volume_m3, net_flow_m3_s, cavitation_floor_pa(oil));
+  return pressure_state_rate_at(oil, p_state_pa, volume_m3, net_flow_m3_s, cavitation_floor_pa(oil),
+                                1.0 / oil.bulk_modulus_pa, air_times_patm(oil));
 }
 
 double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m3,
@@ -147,65 +208,53 @@ double orifice_flow(double cd, double area_m2, double dp_pa, double density_kg_m
   // Orifice equation Q = Cd A sqrt(2 dp / rho) (check-values 4.1, [SRC] Rabie
   // eq. 2.36). Below the transition: a + b dp^3 matched in value and slope
   // at dp = transition (our own regularisation).
-  return orifice_flow_k(cd * std::sqrt(2.0 / density_kg_m3), area_m2, dp_pa, transition_pa);
+  return orifice_flow_k(cd * std::sqrt(2.0 / density_kg_m3), area_m2, dp_pa, laminar_blend(transition_pa));
 }
 
 double edge_area(const Element& edge, double spool_position) {
-  const double s = std::clamp(spool_position, -1.0, 1.0);
-  double frac = 0.0;
-  switch (edge.opening) {
-    case EdgeOpening::kPositive:
-      frac = clamp01((s - edge.overlap) / (1.0 - edge.overlap));
-      break;
-    case EdgeOpening::kNegative:
-      frac = clamp01((-s - edge.overlap) / (1.0 - edge.overlap));
-      break;
-    case EdgeOpening::kCentre:
-      frac = clamp01(1.0 - std::fabs(s) / edge.centre_width);
-      break;
-  }
-  return edge.area_m2 * frac + edge.leak_area_m2;
+  return edge_area_inv(edge, spool_position, element_inverse(edge));
 }
 
 void node_pressures(const Network& net, const StateLayout& layout, const double* y,
                     std::vector<double>& p_pa) {
   p_pa.resize(net.nodes.size());
+  const double floor_pa = cavitation_floor_pa(net.oil);
   for (std::size_t i = 0; i < net.nodes.size(); ++i) {
     const int k = layout.node_state[i];
-    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : physical_pressure(net.oil, y[k] * kPressureScale);
+    p_pa[i] = k < 0 ? net.nodes[i].fixed_pressure_pa : physical_pressure_at(net.oil, y[k] * kPressureScale, floor_pa);
   }
 }
 
 namespace {
 
-// k = Cd sqrt(2/rho) of the element, precomputed by the caller.
-double element_flow_k(const Network& net, const StateLayout& layout, const Element& e, double k,
-                      const std::vector<double>& p, const double* y) {
+// k = Cd sqrt(2/rho) and inv = element_inverse(e) of the element,
+// precomputed by the caller.
+inline double element_flow_k(const StateLayout& layout, const Element& e, double k, double inv,
+                             const LaminarBlend& ptr, const std::vector<double>& p, const double* y) {
   const double pf = p[static_cast<std::size_t>(e.from)];
   const double pt = p[static_cast<std::size_t>(e.to)];
   const double dp = pf - pt;
-  const double ptr = net.oil.laminar_transition_pa;
   switch (e.kind) {
     case ElementKind::kOrifice:
       return orifice_flow_k(k, e.area_m2, dp, ptr);
     case ElementKind::kSpoolEdge: {
       const double s = y[layout.spool_state[static_cast<std::size_t>(e.spool)]];
-      return orifice_flow_k(k, edge_area(e, s), dp, ptr);
+      return orifice_flow_k(k, edge_area_inv(e, s, inv), dp, ptr);
     }
     case ElementKind::kCheck: {
-      double open = smoothstep((dp - e.cracking_pa) / e.full_open_span_pa);
+      double open = smoothstep((dp - e.cracking_pa) * inv);
       if (e.pilot >= 0) {
         // Pilot-operated check: the pilot piston lifts the poppet against the
         // load pressure (to side) once ratio * p_pilot exceeds it.
         const double pp = p[static_cast<std::size_t>(e.pilot)];
-        open = std::max(open, smoothstep((e.pilot_ratio * pp + dp - e.cracking_pa) / e.full_open_span_pa));
+        open = std::max(open, smoothstep((e.pilot_ratio * pp + dp - e.cracking_pa) * inv));
       }
       return orifice_flow_k(k, e.area_m2 * open + e.leak_area_m2, dp, ptr);
     }
     case ElementKind::kRelief:
       // Cracking pressure plus an override gradient (linear pressure-flow
       // characteristic above cracking; common practice, no source).
-      return soft_positive(dp - e.cracking_pa, e.blend_pa) / e.override_pa_s_m3;
+      return soft_positive(dp - e.cracking_pa, e.blend_pa) * inv;
     case ElementKind::kLaminar:
       return e.conductance_m3_s_pa * dp;
   }
@@ -214,9 +263,35 @@ double element_flow_k(const Network& net, const StateLayout& layout, const Eleme
 
 }  // namespace
 
+std::vector<ElementConstants> element_constants(const Network& net) {
+  std::vector<ElementConstants> c;
+  c.reserve(net.elements.size());
+  for (const Element& e : net.elements) {
+    const LaminarBlend lb = laminar_blend(net.oil.laminar_transition_pa);
+    c.push_back(ElementConstants{e.cd * std::sqrt(2.0 / net.oil.density_kg_m3), element_inverse(e), lb.c1, lb.c3});
+  }
+  return c;
+}
+
+void element_flows(const Network& net, const StateLayout& layout, const std::vector<ElementConstants>& constants,
+                   const std::vector<double>& p, const double* y, double* q) {
+  for (std::size_t j = 0; j < net.elements.size(); ++j) {
+    const ElementConstants& c = constants[j];
+    q[j] = element_flow_k(layout, net.elements[j], c.k, c.inv,
+                          LaminarBlend{net.oil.laminar_transition_pa, c.laminar_c1, c.laminar_c3}, p, y);
+  }
+}
+
 double element_flow(const Network& net, const StateLayout& layout, const Element& e,
                     const std::vector<double>& p, const double* y) {
-  return element_flow_k(net, layout, e, e.cd * std::sqrt(2.0 / net.oil.density_kg_m3), p, y);
+  return element_flow_k(layout, e, e.cd * std::sqrt(2.0 / net.oil.density_kg_m3), element_inverse(e),
+                        laminar_blend(net.oil.laminar_transition_pa), p, y);
+}
+
+double node_pressure_of(const Network& net, const StateLayout& layout, std::size_t node, const double* y) {
+  const int k = layout.node_state[node];
+  return k < 0 ? net.nodes[node].fixed_pressure_pa
+               : physical_pressure_at(net.oil, y[k] * kPressureScale, cavitation_floor_pa(net.oil));
 }
 
 double pump_flow(const Pump& pump, const NetworkInputs& in, double p_pa) {
@@ -260,10 +335,23 @@ NetworkRhs::NetworkRhs(const Network& net, const StateLayout& layout)
     : net_(&net),
       layout_(&layout),
       floor_pa_(cavitation_floor_pa(net.oil)),
+      inv_beta_(1.0 / net.oil.bulk_modulus_pa),
+      air_patm_(air_times_patm(net.oil)),
+      laminar_c1_(laminar_blend(net.oil.laminar_transition_pa).c1),
+      laminar_c3_(laminar_blend(net.oil.laminar_transition_pa).c3),
       p_(net.nodes.size()),
       q_net_(net.nodes.size()),
-      dvdt_(net.nodes.size()) {
-  for (const Element& e : net.elements) flow_k_.push_back(e.cd * std::sqrt(2.0 / net.oil.density_kg_m3));
+      dvdt_(net.nodes.size()),
+      constants_(element_constants(net)) {
+  for (const Element& e : net.elements) {
+    // +1: the element returns oil to a fixed node (tank), -1: draws from one.
+    returned_sign_.push_back((net.nodes[static_cast<std::size_t>(e.to)].fixed ? 1.0 : 0.0) -
+                             (net.nodes[static_cast<std::size_t>(e.from)].fixed ? 1.0 : 0.0));
+  }
+  for (const Cylinder& c : net.cylinders) {
+    cyl_inv_.push_back(1.0 / c.coulomb_velocity_m_s);
+    cyl_inv_.push_back(1.0 / (c.mass_kg * kLengthScale));  // force (N) to acceleration (mm/s^2)
+  }
 }
 
 void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y, double* dydt) {
@@ -278,15 +366,13 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
   }
   double returned = 0.0;
 
+  const LaminarBlend laminar{net.oil.laminar_transition_pa, laminar_c1_, laminar_c3_};
   for (std::size_t j = 0; j < net.elements.size(); ++j) {
     const Element& e = net.elements[j];
-    const double q = element_flow_k(net, L, e, flow_k_[j], p_, y);
-    const auto f = static_cast<std::size_t>(e.from);
-    const auto t = static_cast<std::size_t>(e.to);
-    q_net_[f] -= q;
-    q_net_[t] += q;
-    if (net.nodes[t].fixed) returned += q;
-    if (net.nodes[f].fixed) returned -= q;
+    const double q = element_flow_k(L, e, constants_[j].k, constants_[j].inv, laminar, p_, y);
+    q_net_[static_cast<std::size_t>(e.from)] -= q;
+    q_net_[static_cast<std::size_t>(e.to)] += q;
+    returned += returned_sign_[j] * q;
   }
   double pumped = 0.0;
   if (net.pump.node >= 0) {
@@ -309,13 +395,15 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
     dvdt_[b] -= cyl.area_b_m2 * v;
 
     double f = p_[a] * cyl.area_a_m2 - p_[b] * cyl.area_b_m2;
-    f -= cyl.coulomb_n * std::tanh(v / cyl.coulomb_velocity_m_s) + cyl.viscous_n_s_m * v;
+    // tanh(u) rounds to +-1 for |u| >= 20, where the library call is skipped.
+    const double u = v * cyl_inv_[2 * c];
+    f -= cyl.coulomb_n * (std::fabs(u) >= 20.0 ? std::copysign(1.0, u) : std::tanh(u)) + cyl.viscous_n_s_m * v;
     f += load_force(cyl, in, c, t_s, x, v);
     // End stops: stiff spring-dampers that can only push back.
     if (x < 0.0) f += std::max(0.0, -cyl.end_stop_n_m * x - cyl.end_stop_n_s_m * v);
     if (x > cyl.stroke_m) f += std::min(0.0, -cyl.end_stop_n_m * (x - cyl.stroke_m) - cyl.end_stop_n_s_m * v);
     dydt[k] = y[k + 1];
-    dydt[k + 1] = f / cyl.mass_kg / kLengthScale;
+    dydt[k + 1] = f * cyl_inv_[2 * c + 1];
   }
 
   double compressed = 0.0;
@@ -323,7 +411,8 @@ void NetworkRhs::operator()(const NetworkInputs& in, double t_s, const double* y
     const int k = L.node_state[i];
     if (k < 0) continue;
     const double vol = node_volume(net, net.nodes[i], y, L);
-    dydt[k] = pressure_state_rate_at(net.oil, y[k] * kPressureScale, vol, q_net_[i] - dvdt_[i], floor_pa_) /
+    dydt[k] = pressure_state_rate_at(net.oil, y[k] * kPressureScale, vol, q_net_[i] - dvdt_[i], floor_pa_,
+                                     inv_beta_, air_patm_) /
               kPressureScale;
     // V/beta dp/dt equals the net inflow by the continuity equation.
     compressed += q_net_[i] - dvdt_[i];

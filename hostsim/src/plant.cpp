@@ -24,6 +24,30 @@ constexpr double kOpenLoopMa = 0.0;
 
 double clamp_pm1(double v) { return std::clamp(v, -1.0, 1.0); }
 
+// Whether going from inputs `a` to `b` changes df/dy, the Jacobian of the
+// network equations. A proportional spool's target enters its equation as an
+// additive term, an extra load force is additive, and a pump without a
+// compensator delivers a flow that does not depend on the state: changing
+// them leaves df/dy as it was, so the integrator may keep its Jacobian
+// (which it still checks along every step). A closed-loop ramp changes a
+// proportional target in every period; refreshing the Jacobian for each of
+// those cost 16 right-hand sides per period for nothing.
+bool jacobian_changed(const Network& net, const NetworkInputs& a, const NetworkInputs& b) {
+  if (a.spool_stuck != b.spool_stuck || a.extra_leak_m3_s_pa != b.extra_leak_m3_s_pa) return true;
+  if (net.pump.compensated &&
+      (a.pump_running != b.pump_running || a.pump_flow_factor != b.pump_flow_factor)) {
+    return true;
+  }
+  for (std::size_t s = 0; s < net.spools.size() && s < a.spool_target.size() && s < b.spool_target.size(); ++s) {
+    // The rate limiter's saturation moves with the target (a stale
+    // Jacobian there lets a spool crawl), so those targets count.
+    if (a.spool_target[s] != b.spool_target[s] && net.spools[s].dynamics == SpoolDynamics::kRateLimited) {
+      return true;
+    }
+  }
+  return a.spool_target.size() != b.spool_target.size();
+}
+
 }  // namespace
 
 std::string PlantError::message() const {
@@ -51,6 +75,7 @@ double OilBalance::relative_residual() const {
 Plant::Plant(Network net, SolverSettings solver, std::unique_ptr<Wiring> wiring)
     : net_(std::move(net)), layout_(make_layout(net_)), solver_(solver), wiring_(std::move(wiring)) {
   integrator_ = make_integrator(net_, layout_, solver_);
+  element_constants_ = element_constants(net_);
   y_ = initial_state(net_, layout_);
   inputs_.spool_target.assign(net_.spools.size(), 0.0);
   for (std::size_t s = 0; s < net_.spools.size(); ++s) inputs_.spool_target[s] = net_.spools[s].initial;
@@ -191,8 +216,8 @@ bool Plant::advance(double dt_s) {
   if (inputs_.spool_target != last_inputs_.spool_target || inputs_.spool_stuck != last_inputs_.spool_stuck ||
       inputs_.pump_running != last_inputs_.pump_running || inputs_.pump_flow_factor != last_inputs_.pump_flow_factor ||
       inputs_.extra_leak_m3_s_pa != last_inputs_.extra_leak_m3_s_pa || inputs_.extra_force_n != last_inputs_.extra_force_n) {
-    integrator_->inputs_changed();
-    last_inputs_ = inputs_;  // allocates only when something changed
+    if (jacobian_changed(net_, last_inputs_, inputs_)) integrator_->inputs_changed();
+    last_inputs_ = inputs_;  // same sizes: copies without allocating
   }
   const bool ok = integrator_->advance(inputs_, y_, time_s_, t_end,
                                        [this](double, const std::vector<double>& y) { sample_switches(y); });
@@ -205,15 +230,13 @@ bool Plant::advance(double dt_s) {
 }
 
 void Plant::sample_switches(const std::vector<double>& y) {
-  bool pressures_needed = false;
-  for (const Wiring::Sensor& s : wiring_->sensors) pressures_needed |= s.kind == SensorKind::kPressureSwitch;
-  if (pressures_needed) node_pressures(net_, layout_, y.data(), p_scratch_);
+  // Runs after every internal step: only the switched nodes' pressures.
   for (Wiring::Sensor& s : wiring_->sensors) {
     double value = 0.0;
     if (s.kind == SensorKind::kLimitSwitch) {
       value = y[layout_.first_cylinder + 2 * static_cast<std::size_t>(s.cylinder)] * kLengthScale;
     } else if (s.kind == SensorKind::kPressureSwitch) {
-      value = p_scratch_[static_cast<std::size_t>(s.node)];
+      value = node_pressure_of(net_, layout_, static_cast<std::size_t>(s.node), y.data());
     } else {
       continue;
     }
@@ -403,23 +426,24 @@ PlantSnapshot Plant::snapshot() const {
   PlantSnapshot s;
   s.time_s = time_s_;
   s.names = &snapshot_names_;
-  s.values.reserve(snapshot_names_.size());
+  // Taken every period by the closed loop: one allocation, no growth.
+  s.values.resize(snapshot_names_.size());
+  double* v = s.values.data();
   node_pressures(net_, layout_, y_.data(), p_scratch_);
   for (std::size_t i = 0; i < net_.nodes.size(); ++i) {
-    if (!net_.nodes[i].fixed) s.values.push_back(p_scratch_[i] / 1e5);
+    if (!net_.nodes[i].fixed) *v++ = p_scratch_[i] / 1e5;
   }
   for (std::size_t c = 0; c < net_.cylinders.size(); ++c) {
-    s.values.push_back(y_[layout_.first_cylinder + 2 * c]);
-    s.values.push_back(y_[layout_.first_cylinder + 2 * c + 1]);
+    *v++ = y_[layout_.first_cylinder + 2 * c];
+    *v++ = y_[layout_.first_cylinder + 2 * c + 1];
   }
-  for (std::size_t k = 0; k < net_.spools.size(); ++k) s.values.push_back(y_[layout_.spool_state[k]]);
+  for (std::size_t k = 0; k < net_.spools.size(); ++k) *v++ = y_[layout_.spool_state[k]];
   const double to_l_min = 60000.0;
-  s.values.push_back(net_.pump.node >= 0
-                         ? pump_flow(net_.pump, inputs_, p_scratch_[static_cast<std::size_t>(net_.pump.node)]) * to_l_min
-                         : 0.0);
-  for (const Element& e : net_.elements) {
-    s.values.push_back(element_flow(net_, layout_, e, p_scratch_, y_.data()) * to_l_min);
-  }
+  *v++ = net_.pump.node >= 0
+             ? pump_flow(net_.pump, inputs_, p_scratch_[static_cast<std::size_t>(net_.pump.node)]) * to_l_min
+             : 0.0;
+  element_flows(net_, layout_, element_constants_, p_scratch_, y_.data(), v);
+  for (std::size_t j = 0; j < net_.elements.size(); ++j) v[j] *= to_l_min;
   return s;
 }
 

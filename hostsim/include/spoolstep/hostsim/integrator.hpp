@@ -51,7 +51,9 @@ class Integrator {
   const SolverStats& stats() const { return do_stats(); }
   /// Forgets the step-size history (after a jump in the state).
   void restart() { do_restart(); }
-  /// Tells the integrator the inputs changed: a reused Jacobian may no longer fit.
+  /// Tells the integrator that the inputs changed in a way that alters df/dy:
+  /// a reused Jacobian may no longer fit. (Changes that only add a constant
+  /// to f, such as a proportional spool's target, need not be told.)
   void inputs_changed() { do_inputs_changed(); }
 
  private:

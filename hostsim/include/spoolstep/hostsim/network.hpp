@@ -207,6 +207,26 @@ void node_pressures(const Network& net, const StateLayout& layout, const double*
 double element_flow(const Network& net, const StateLayout& layout, const Element& element,
                     const std::vector<double>& p_pa, const double* y);
 
+/// Per-element constants of the flow laws, computed once: k = Cd sqrt(2/rho),
+/// the reciprocal the element's law divides by (1/(1 - overlap),
+/// 1/centre width, 1/full-open span or 1/override gradient) and the laminar
+/// blend's coefficients 1.25/sqrt(p_t) and 0.25/(p_t^2 sqrt(p_t)).
+struct ElementConstants {
+  double k = 0.0;
+  double inv = 0.0;
+  double laminar_c1 = 0.0;
+  double laminar_c3 = 0.0;
+};
+std::vector<ElementConstants> element_constants(const Network& net);
+
+/// element_flow() of every element (m^3/s) into q, with the elements'
+/// constants given (the same values, one call for all).
+void element_flows(const Network& net, const StateLayout& layout, const std::vector<ElementConstants>& constants,
+                   const std::vector<double>& p_pa, const double* y, double* q);
+
+/// Pressure (Pa) of one node for the state y (as node_pressures()).
+double node_pressure_of(const Network& net, const StateLayout& layout, std::size_t node, const double* y);
+
 /// Pump delivery (m^3/s) at outlet pressure p_pa.
 double pump_flow(const Pump& pump, const NetworkInputs& in, double p_pa);
 
@@ -227,10 +247,16 @@ class NetworkRhs {
   const Network* net_;
   const StateLayout* layout_;
   double floor_pa_ = 0.0;         ///< cavitation floor (absolute), computed once
-  std::vector<double> flow_k_;    ///< per element: Cd sqrt(2/rho)
+  double inv_beta_ = 0.0;         ///< 1 / bulk modulus of the oil
+  double air_patm_ = 0.0;         ///< free-air fraction * atmospheric pressure
+  double laminar_c1_ = 0.0;       ///< laminar blend: 1.25 / sqrt(p_t)
+  double laminar_c3_ = 0.0;       ///< laminar blend: 0.25 / (p_t^2 sqrt(p_t))
   std::vector<double> p_;
   std::vector<double> q_net_;
   std::vector<double> dvdt_;
+  std::vector<ElementConstants> constants_;  ///< per element
+  std::vector<double> returned_sign_;  ///< per element: +1 into a fixed node, -1 out of one
+  std::vector<double> cyl_inv_;   ///< per cylinder: 1/Coulomb velocity, 1/(mass * length scale)
 };
 
 }  // namespace spoolstep::hostsim

@@ -146,6 +146,7 @@ class Plant {
   double time_s_ = 0.0;
   std::vector<std::string> snapshot_names_;
   std::vector<double> x_origin_m_;  ///< cylinder positions where the oil balance started
+  std::vector<ElementConstants> element_constants_;  ///< for the element flows of snapshot()
   mutable std::vector<double> p_scratch_;
 };
 
