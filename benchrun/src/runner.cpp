@@ -147,21 +147,23 @@ RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scen
     if (options.after_scan) options.after_scan(outputs, controller.diagnostics());
     ++outcome.scans;
 
-    const core::Diagnostics& d = controller.diagnostics();
-    row.clear();
-    row.push_back(static_cast<double>(d.state));
-    row.push_back(static_cast<double>(d.active_step));
-    row.push_back(static_cast<double>(d.fault_count));
-    row.push_back(static_cast<double>(d.power_unit));
-    row.push_back(static_cast<double>(d.completed_cycles));
-    for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) row.push_back(inputs.digital[i] ? 1.0 : 0.0);
-    for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) row.push_back(static_cast<double>(d.analog_value[i]));
-    for (std::uint8_t i = 0; i < machine.coil_count; ++i) row.push_back(outputs.coils[i] ? 1.0 : 0.0);
-    for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) row.push_back(static_cast<double>(outputs.prop[i].value));
-    for (std::uint8_t i = 0; i < machine.function_count; ++i) row.push_back(static_cast<double>(d.functions[i].command));
-    if (plant != nullptr) plant->sample(row);
     const double t_s = static_cast<double>(t_us) / 1e6;  // the nearest double to the time, so figures print as written
-    for (TraceSink* sink : sinks) sink->row(t_s, row);
+    if (!sinks.empty()) {  // a row costs a plant snapshot: only when someone reads it
+      const core::Diagnostics& d = controller.diagnostics();
+      row.clear();
+      row.push_back(static_cast<double>(d.state));
+      row.push_back(static_cast<double>(d.active_step));
+      row.push_back(static_cast<double>(d.fault_count));
+      row.push_back(static_cast<double>(d.power_unit));
+      row.push_back(static_cast<double>(d.completed_cycles));
+      for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) row.push_back(inputs.digital[i] ? 1.0 : 0.0);
+      for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) row.push_back(static_cast<double>(d.analog_value[i]));
+      for (std::uint8_t i = 0; i < machine.coil_count; ++i) row.push_back(outputs.coils[i] ? 1.0 : 0.0);
+      for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) row.push_back(static_cast<double>(outputs.prop[i].value));
+      for (std::uint8_t i = 0; i < machine.function_count; ++i) row.push_back(static_cast<double>(d.functions[i].command));
+      if (plant != nullptr) plant->sample(row);
+      for (TraceSink* sink : sinks) sink->row(t_s, row);
+    }
 
     if (plant != nullptr) {
       plant->apply_outputs(outputs);
