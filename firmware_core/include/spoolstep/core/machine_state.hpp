@@ -79,12 +79,31 @@ struct TransitionResult {
   bool handled;  ///< false: no row, the event is ignored in this state
 };
 
+/// kStateTable as a direct lookup, built at compile time, so the scan pays
+/// one index instead of a search: entry = next state + 1, 0 = no row.
+struct StateLookup {
+  std::array<std::array<std::uint8_t, kMachineEventCount>, kMachineStateCount> next{};
+};
+
+constexpr StateLookup make_state_lookup() {
+  StateLookup lookup{};
+  for (const StateTransition& row : kStateTable) {
+    lookup.next[static_cast<std::size_t>(row.from)][static_cast<std::size_t>(row.event)] =
+        static_cast<std::uint8_t>(static_cast<std::uint8_t>(row.to) + 1u);
+  }
+  return lookup;
+}
+
+inline constexpr StateLookup kStateLookup = make_state_lookup();
+
 /// Looks up (state, event) in kStateTable.
 constexpr TransitionResult next_state(MachineState state, MachineEvent event) {
-  for (const StateTransition& row : kStateTable) {
-    if (row.from == state && row.event == event) return {row.to, true};
-  }
-  return {state, false};
+  const auto s = static_cast<std::size_t>(state);
+  const auto e = static_cast<std::size_t>(event);
+  if (s >= kMachineStateCount || e >= kMachineEventCount) return {state, false};
+  const std::uint8_t entry = kStateLookup.next[s][e];
+  if (entry == 0) return {state, false};
+  return {static_cast<MachineState>(entry - 1u), true};
 }
 
 /// True in the states where the step chain may run.
