@@ -130,22 +130,9 @@ nlohmann::json demo_plant_json() {
 }
 
 Timeline demo_press_cycle() {
-  using W = TimelineEvent::What;
   Timeline t;
-  auto spool = [&](double time, const char* f, double target) {
-    TimelineEvent e;
-    e.time_s = time;
-    e.what = W::kSpool;
-    e.function = f;
-    e.target = target;
-    t.events.push_back(e);
-  };
-  TimelineEvent pump;
-  pump.time_s = 0.0;
-  pump.what = W::kPump;
-  pump.running = true;
-  pump.loaded = true;
-  t.events.push_back(pump);
+  t.pump(0.0, true, true);
+  auto spool = [&t](double time, const char* f, double target) { t.spool(time, f, target); };
   spool(0.05, "clamp", 1.0);   // clamp closes on the workpiece
   spool(0.55, "clamp", 0.0);   // centre: the pilot-operated check holds the clamp
   spool(0.60, "press", 1.0);   // press down, full speed

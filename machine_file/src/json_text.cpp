@@ -8,21 +8,6 @@ namespace {
 
 using json = nlohmann::json;
 
-/// Escapes one reference token per RFC 6901 ("~" -> "~0", "/" -> "~1").
-std::string escape_token(const std::string& token) {
-  std::string out;
-  for (const char c : token) {
-    if (c == '~') {
-      out += "~0";
-    } else if (c == '/') {
-      out += "~1";
-    } else {
-      out += c;
-    }
-  }
-  return out;
-}
-
 /// Tracks object keys while parsing to catch duplicates, which nlohmann_json
 /// would otherwise accept silently (the last one winning).
 struct DuplicateKeyWatcher {
@@ -90,6 +75,20 @@ std::string strip_exception_id(const std::string& what) {
 }
 
 }  // namespace
+
+std::string escape_token(std::string_view token) {
+  std::string out;
+  for (const char c : token) {
+    if (c == '~') {
+      out += "~0";
+    } else if (c == '/') {
+      out += "~1";
+    } else {
+      out += c;
+    }
+  }
+  return out;
+}
 
 ParsedJson parse_json_text(const std::string& text) {
   ParsedJson result;

@@ -35,20 +35,6 @@ constexpr const char* kCapacityHeader = "firmware_core/include/spoolstep/core/ca
 
 // ---------------------------------------------------------------- helpers --
 
-/// Escapes one reference token per RFC 6901 ("~" -> "~0", "/" -> "~1").
-std::string escape_token(std::string_view token) {
-  std::string out;
-  for (const char c : token) {
-    if (c == '~') {
-      out += "~0";
-    } else if (c == '/') {
-      out += "~1";
-    } else {
-      out += c;
-    }
-  }
-  return out;
-}
 
 std::string child(const std::string& path, std::string_view key) { return path + "/" + escape_token(key); }
 std::string child(const std::string& path, std::size_t index) { return path + "/" + std::to_string(index); }

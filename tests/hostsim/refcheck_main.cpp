@@ -51,22 +51,9 @@ std::unique_ptr<Plant> demo_plant() {
 // presses against the relief valve, decompresses through the bleed centre,
 // returns, and the clamp opens (invented, like the machine).
 Timeline press_cell_cycle() {
-  using W = TimelineEvent::What;
   Timeline t;
-  auto spool = [&](double time, const char* f, double target) {
-    TimelineEvent e;
-    e.time_s = time;
-    e.what = W::kSpool;
-    e.function = f;
-    e.target = target;
-    t.events.push_back(e);
-  };
-  TimelineEvent pump;
-  pump.time_s = 0.0;
-  pump.what = W::kPump;
-  pump.running = true;
-  pump.loaded = true;
-  t.events.push_back(pump);
+  t.pump(0.0, true, true);
+  auto spool = [&t](double time, const char* f, double target) { t.spool(time, f, target); };
   spool(0.05, "clamp", 1.0);
   spool(0.60, "press", 1.0);   // down at full opening: the pump limits the speed
   spool(4.00, "press", 0.0);   // on the part since about 3.8 s; centre: the bleed vents the cap side

@@ -26,6 +26,24 @@ struct TimelineEvent {
 struct Timeline {
   std::vector<TimelineEvent> events;  ///< in time order
   double end_s = 0.0;
+  /// Appends a spool target change of `function`'s valve at `time_s`.
+  void spool(double time_s, const char* function, double target) {
+    TimelineEvent e;
+    e.time_s = time_s;
+    e.what = TimelineEvent::What::kSpool;
+    e.function = function;
+    e.target = target;
+    events.push_back(e);
+  }
+  /// Appends a pump state change at `time_s`.
+  void pump(double time_s, bool running, bool loaded) {
+    TimelineEvent e;
+    e.time_s = time_s;
+    e.what = TimelineEvent::What::kPump;
+    e.running = running;
+    e.loaded = loaded;
+    events.push_back(e);
+  }
 };
 
 /// The network inputs in force from start_s on.

@@ -3,6 +3,7 @@
 /// comments allowed, duplicate keys reported (a plain parser keeps the last
 /// one silently), nesting bounded, syntax errors with line and column.
 #include <string>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -23,6 +24,9 @@ struct ParsedJson {
   /// True when the text parsed with no duplicate and nothing too deep.
   bool ok() const { return syntax_error.empty() && duplicates.empty() && !too_deep; }
 };
+
+/// One JSON pointer reference token, escaped per RFC 6901 ("~" -> "~0", "/" -> "~1").
+std::string escape_token(std::string_view token);
 
 /// Parses `text`; never throws.
 ParsedJson parse_json_text(const std::string& text);
