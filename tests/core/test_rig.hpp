@@ -257,6 +257,19 @@ class Rig {
     in.digital[kClampClosed] = true;
     run_ms(5);
   }
+  // From the press_down step: the ram reaches the bottom with 120 bar, dwells,
+  // returns to the top and the clamp opens; then `final_ms` more scans.
+  void finish_cycle_from_press_step(std::uint32_t final_ms) {
+    in.digital[kPressUp] = false;
+    in.digital[kPressDown] = true;
+    set_ma(kPressPressure, 4.0f + 16.0f * 120.0f / 250.0f);
+    run_ms(600);
+    in.digital[kPressDown] = false;
+    in.digital[kPressUp] = true;
+    run_ms(100);
+    in.digital[kClampClosed] = false;
+    run_ms(final_ms);
+  }
   const Diagnostics& diag() const { return controller.diagnostics(); }
   std::uint32_t now() const { return now_; }
 

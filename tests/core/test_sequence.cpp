@@ -129,15 +129,7 @@ TEST(Sequence, CycleStopFinishesTheCycleThenIdles) {
   rig.in.commands.cycle_stop = false;
   EXPECT_EQ(rig.diag().state, MachineState::kAutoEndCycle);
   EXPECT_EQ(rig.diag().active_step, kPressStep) << "the cycle goes on";
-  rig.in.digital[kPressUp] = false;
-  rig.in.digital[kPressDown] = true;
-  rig.set_ma(kPressPressure, kMaAt120Bar);
-  rig.run_ms(600);
-  rig.in.digital[kPressDown] = false;
-  rig.in.digital[kPressUp] = true;
-  rig.run_ms(100);
-  rig.in.digital[kClampClosed] = false;
-  rig.run_ms(100);
+  rig.finish_cycle_from_press_step(100);
   EXPECT_EQ(rig.diag().state, MachineState::kAutoIdle);
   EXPECT_EQ(rig.diag().active_step, kWait);
 }
@@ -148,15 +140,7 @@ TEST(Sequence, ContinuousModeStartsTheNextCycle) {
   rig.in.commands.continuous = true;
   rig.press(kStart);
   rig.in.digital[kClampClosed] = true;
-  rig.in.digital[kPressUp] = false;
-  rig.in.digital[kPressDown] = true;
-  rig.set_ma(kPressPressure, kMaAt120Bar);
-  rig.run_ms(600);
-  rig.in.digital[kPressDown] = false;
-  rig.in.digital[kPressUp] = true;
-  rig.run_ms(100);
-  rig.in.digital[kClampClosed] = false;
-  rig.run_ms(10);
+  rig.finish_cycle_from_press_step(10);
   EXPECT_EQ(rig.diag().completed_cycles, 1u);
   EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
   EXPECT_EQ(rig.diag().active_step, kClampStep) << "next cycle started by itself";
