@@ -243,6 +243,7 @@ class OdeintRosenbrock4 final : public Integrator {
     return true;
   }
   const SolverStats& do_stats() const override { return eval_.stats; }
+  double do_step_hint() const override { return h_; }
   void do_restart() override { h_ = 0.0; }
   void do_inputs_changed() override {}  // a fresh Jacobian every step anyway
 
@@ -278,7 +279,7 @@ class OdeintRosenbrock4 final : public Integrator {
 class Ros2 final : public Integrator {
  public:
   Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
-      : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(s.atol), jac_(n_ * n_),
+      : eval_(net, layout), n_(layout.size), rtol_(s.rtol), atol_(absolute_tolerances(net, layout, s)), jac_(n_ * n_),
         lu_(n_ * n_), piv_(n_), m_(layout.pumped), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
   bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
@@ -337,7 +338,7 @@ class Ros2 final : public Integrator {
           double jk = 0.0;
           for (std::size_t q = j_start_[i]; q < j_start_[i + 1]; ++q) jk += j_val_[q] * k1_[j_col_[q]];
           const double miss = kGamma * hs * (f_[i] - f0_[i] - hs * jk);
-          const double sc = atol_ + rtol_ * std::fabs(y[i]);
+          const double sc = atol_[i] + rtol_ * std::fabs(y[i]);
           jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
         }
       }
@@ -352,7 +353,7 @@ class Ros2 final : public Integrator {
       for (std::size_t i = 0; i < n_; ++i) {
         ynew_[i] = y[i] + hs * (1.5 * k1_[i] + 0.5 * k2_[i]);
         const double e = hs * 0.5 * (k1_[i] + k2_[i]);
-        const double sc = atol_ + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
+        const double sc = atol_[i] + rtol_ * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
         err = std::max(err, std::fabs(e) / sc);
       }
       if (jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
@@ -384,6 +385,7 @@ class Ros2 final : public Integrator {
     return true;
   }
   const SolverStats& do_stats() const override { return eval_.stats; }
+  double do_step_hint() const override { return h_; }
   void do_restart() override {
     h_ = 0.0;
     jac_age_ = -1;
@@ -525,7 +527,8 @@ class Ros2 final : public Integrator {
 
   Evaluator eval_;
   std::size_t n_;
-  double rtol_, atol_;
+  double rtol_;
+  std::vector<double> atol_;  // per state
   std::vector<double> jac_, lu_;
   std::vector<std::size_t> piv_;
   std::size_t m_;  // dynamic states: the accumulators are the last n_ - m_
@@ -538,6 +541,23 @@ class Ros2 final : public Integrator {
 };
 
 }  // namespace
+
+std::vector<double> absolute_tolerances(const Network& net, const StateLayout& layout,
+                                        const SolverSettings& settings) {
+  std::vector<double> atol(layout.size, settings.atol);
+  for (std::size_t c = 0; c < net.cylinders.size(); ++c) {
+    atol[layout.first_cylinder + 2 * c + 1] = settings.velocity_atol_mm_s;
+  }
+  // A spool rate error e moves the spool by about e / w over the response
+  // time 1/w: scaled so, the rate weighs like the position (stroke/s against
+  // stroke fraction would otherwise ask for w times more accuracy).
+  for (std::size_t s = 0; s < net.spools.size(); ++s) {
+    if (net.spools[s].dynamics == SpoolDynamics::kSecondOrder) {
+      atol[layout.spool_state[s] + 1] = settings.atol * net.spools[s].natural_rad_s;
+    }
+  }
+  return atol;
+}
 
 std::unique_ptr<Integrator> make_integrator(const Network& net, const StateLayout& layout,
                                             const SolverSettings& settings) {

@@ -5,6 +5,7 @@
 #include <limits>
 
 #include "plant_wiring.hpp"
+#include "step_window.hpp"
 
 namespace spoolstep::hostsim {
 namespace {
@@ -75,8 +76,11 @@ double OilBalance::relative_residual() const {
 Plant::Plant(Network net, SolverSettings solver, std::unique_ptr<Wiring> wiring)
     : net_(std::move(net)), layout_(make_layout(net_)), solver_(solver), wiring_(std::move(wiring)) {
   integrator_ = make_integrator(net_, layout_, solver_);
+  window_rhs_ = std::make_unique<NetworkRhs>(net_, layout_);
+  window_ = std::make_unique<StepWindow>(layout_.size);
   element_constants_ = element_constants(net_);
   y_ = initial_state(net_, layout_);
+  y_work_ = y_;
   inputs_.spool_target.assign(net_.spools.size(), 0.0);
   for (std::size_t s = 0; s < net_.spools.size(); ++s) inputs_.spool_target[s] = net_.spools[s].initial;
   inputs_.spool_stuck.assign(net_.spools.size(), false);
@@ -95,10 +99,16 @@ Plant::Plant(Network net, SolverSettings solver, std::unique_ptr<Wiring> wiring)
   snapshot_names_.push_back("pump.q_l_min");
   for (const Element& e : net_.elements) snapshot_names_.push_back(e.name + ".q_l_min");
   restart_balance();
-  sample_switches(y_);
+  sample_switches(y_.data());
 }
 
 Plant::~Plant() = default;
+
+void Plant::restart_integration() {
+  integrator_->restart();
+  window_->clear();
+  window_periods_ = 1;
+}
 
 void Plant::restart_balance() {
   y_[layout_.pumped] = y_[layout_.returned] = y_[layout_.compressed] = 0.0;
@@ -195,9 +205,9 @@ bool Plant::set_cylinder_state(std::string_view cylinder, double x_m, double v_m
   const std::size_t k = layout_.first_cylinder + 2 * static_cast<std::size_t>(c);
   y_[k] = x_m / kLengthScale;
   y_[k + 1] = v_m_s / kLengthScale;
-  integrator_->restart();
+  restart_integration();
   restart_balance();
-  sample_switches(y_);
+  sample_switches(y_.data());
   return true;
 }
 
@@ -205,9 +215,9 @@ bool Plant::set_node_pressure(std::string_view node, double p_pa) {
   const int n = node_index(node);
   if (n < 0 || layout_.node_state[static_cast<std::size_t>(n)] < 0) return false;
   y_[static_cast<std::size_t>(layout_.node_state[static_cast<std::size_t>(n)])] = p_pa / kPressureScale;
-  integrator_->restart();
+  restart_integration();
   restart_balance();
-  sample_switches(y_);
+  sample_switches(y_.data());
   return true;
 }
 
@@ -218,25 +228,65 @@ bool Plant::advance(double dt_s) {
       inputs_.extra_leak_m3_s_pa != last_inputs_.extra_leak_m3_s_pa || inputs_.extra_force_n != last_inputs_.extra_force_n) {
     if (jacobian_changed(net_, last_inputs_, inputs_)) integrator_->inputs_changed();
     last_inputs_ = inputs_;  // same sizes: copies without allocating
+    // The rest of the window was integrated under the old commands.
+    if (!window_->empty() && window_->end_time() > time_s_) window_periods_ = 1;
+    window_->clear();
   }
-  const bool ok = integrator_->advance(inputs_, y_, time_s_, t_end,
-                                       [this](double, const std::vector<double>& y) { sample_switches(y); });
-  if (ok) {
-    time_s_ = t_end;
-  } else {
-    integrator_->restart();
+  const double slack = 1e-9 * dt_s;  // a window ending "at" t_end covers it despite rounding
+  if (window_->empty() || window_->end_time() < t_end - slack) {
+    if (!open_window(t_end, dt_s)) return false;
   }
-  return ok;
+  // The switches see every step point up to t_end, then the state at t_end.
+  window_->visit_points(time_s_, t_end, [this](const double* y) { sample_switches(y); });
+  const double t_read = std::min(t_end, window_->end_time());
+  window_->interpolate(
+      t_read, [this](double t, const double* y, double* f) { (*window_rhs_)(last_inputs_, t, y, f); }, y_.data());
+  sample_switches(y_.data());
+  time_s_ = t_end;
+  if (window_->end_time() <= t_end + slack) {
+    // Used up to its end without a change of command: the next may reach further.
+    window_periods_ = std::min(2 * window_periods_, std::max(1, solver_.max_window_periods));
+  }
+  return true;
 }
 
-void Plant::sample_switches(const std::vector<double>& y) {
+bool Plant::open_window(double t_end, double dt_s) {
+  // As far as the error control would step anyway, in whole periods, and
+  // never further than the stretch without a change of command so far
+  // allows (window_periods_ doubles with every window used up), so that a
+  // window is seldom thrown away.
+  int periods = 1;
+  const double hint = integrator_->step_hint();
+  if (window_periods_ > 1 && hint > dt_s) {
+    periods = std::min(window_periods_, static_cast<int>(std::floor(hint / dt_s * (1.0 + 1e-9))));
+    periods = std::max(periods, 1);
+  }
+  for (;;) {
+    const double t_stop = periods == 1 ? t_end : time_s_ + periods * dt_s;
+    y_work_ = y_;
+    window_->start(time_s_, y_.data());
+    const bool ok = integrator_->advance(inputs_, y_work_, time_s_, t_stop,
+                                         [this](double t, const std::vector<double>& y) { window_->add(t, y.data()); });
+    if (ok) return true;
+    integrator_->restart();
+    window_->clear();
+    window_periods_ = 1;
+    if (periods == 1) {
+      y_ = y_work_;  // the last good state, as before
+      return false;
+    }
+    periods = 1;  // once more, one period only
+  }
+}
+
+void Plant::sample_switches(const double* y) {
   // Runs after every internal step: only the switched nodes' pressures.
   for (Wiring::Sensor& s : wiring_->sensors) {
     double value = 0.0;
     if (s.kind == SensorKind::kLimitSwitch) {
       value = y[layout_.first_cylinder + 2 * static_cast<std::size_t>(s.cylinder)] * kLengthScale;
     } else if (s.kind == SensorKind::kPressureSwitch) {
-      value = node_pressure_of(net_, layout_, static_cast<std::size_t>(s.node), y.data());
+      value = node_pressure_of(net_, layout_, static_cast<std::size_t>(s.node), y);
     } else {
       continue;
     }
@@ -354,18 +404,18 @@ bool Plant::inject(const PlantFault& fault) {
       if (c < 0) return false;
       // mm^3/s per bar -> m^3/s per Pa
       inputs_.extra_leak_m3_s_pa[static_cast<std::size_t>(c)] = fault.value * 1e-9 / 1e5;
-      integrator_->restart();
+      restart_integration();
       return true;
     }
     case FaultKind::kPumpFailure:
       inputs_.pump_flow_factor = std::clamp(fault.value, 0.0, 1.0);
-      integrator_->restart();
+      restart_integration();
       return true;
     case FaultKind::kLoadChange: {
       const int c = cylinder_index(fault.target);
       if (c < 0) return false;
       inputs_.extra_force_n[static_cast<std::size_t>(c)] = fault.value;
-      integrator_->restart();
+      restart_integration();
       return true;
     }
   }
@@ -381,7 +431,7 @@ void Plant::clear_faults() {
   std::fill(inputs_.extra_leak_m3_s_pa.begin(), inputs_.extra_leak_m3_s_pa.end(), 0.0);
   std::fill(inputs_.extra_force_n.begin(), inputs_.extra_force_n.end(), 0.0);
   inputs_.pump_flow_factor = 1.0;
-  integrator_->restart();
+  restart_integration();
 }
 
 int Plant::node_index(std::string_view name) const {

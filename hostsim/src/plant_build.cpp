@@ -132,6 +132,18 @@ class Reader {
     return x;
   }
 
+  /// A number that must be whole (counts).
+  int whole_number(const json& obj, const std::string& path, const std::string& section, const std::string& key) {
+    const double x = number(obj, path, section, key);
+    if (x != std::floor(x)) {
+      char buf[96];
+      std::snprintf(buf, sizeof buf, "%g is not a whole number", x);
+      error(path + "/" + key, buf, "write a whole number");
+      return static_cast<int>(std::floor(x));
+    }
+    return static_cast<int>(x);
+  }
+
   bool has(const json& obj, const std::string& key) const { return obj.is_object() && obj.contains(key); }
 
   bool boolean(const json& obj, const std::string& path, const std::string& section, const std::string& key) {
@@ -949,6 +961,8 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
                                                                            : SolverMethod::kRos2;
       solver.rtol = r.number(sj, ps, "solver", "rtol");
       solver.atol = r.number(sj, ps, "solver", "atol");
+      solver.velocity_atol_mm_s = r.number(sj, ps, "solver", "velocity_atol_mm_s");
+      solver.max_window_periods = r.whole_number(sj, ps, "solver", "max_window_periods");
     }
   } else {
     const json none = json::object();
@@ -956,6 +970,8 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
                                                                              : SolverMethod::kRos2;
     solver.rtol = r.number(none, root, "solver", "rtol");
     solver.atol = r.number(none, root, "solver", "atol");
+    solver.velocity_atol_mm_s = r.number(none, root, "solver", "velocity_atol_mm_s");
+    solver.max_window_periods = r.whole_number(none, root, "solver", "max_window_periods");
   }
 
   for (std::size_t i = 0; i < machine.coil_count; ++i) b.w->coil_names.push_back(core_name(machine.coils[i]));

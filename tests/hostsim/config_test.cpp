@@ -132,7 +132,7 @@ TEST(PlantConfig, DocsCarryTheCurrentParameterTable) {
   ASSERT_NE(b, std::string::npos);
   ASSERT_NE(e, std::string::npos);
   EXPECT_EQ(text.substr(b + begin.size(), e - b - begin.size()), plant_parameter_table_markdown())
-      << "regenerate the table in docs/plant-model.md from plant_parameter_table_markdown()";
+      << "regenerate the table in docs/plant-model.md with: spoolstep check --plant-reference";
 }
 
 }  // namespace

@@ -9,6 +9,7 @@
 //                        [--machine FILE]
 //   --reuse   keep WORKDIR/reference.json from an earlier run (same case)
 //   --solver  integrate here with another method/tolerances (for measuring)
+//   --velocity-atol  after --solver: the cylinder velocity tolerance (mm/s)
 //   --machine the plant of this machine file (the README's demo press cell)
 //             with its own open-loop timeline, instead of the in-code demo
 #include <algorithm>
@@ -69,7 +70,7 @@ Timeline press_cell_cycle() {
 
 int main(int argc, char** argv) {
   if (argc < 4) {
-    std::fprintf(stderr, "usage: hostsim_refcheck PYTHON SCRIPT WORKDIR [--reuse] [--solver METHOD RTOL ATOL]\n");
+    std::fprintf(stderr, "usage: hostsim_refcheck PYTHON SCRIPT WORKDIR [--reuse] [--solver METHOD RTOL ATOL [--velocity-atol MM_S]]\n");
     return 2;
   }
   bool reuse = false;
@@ -87,6 +88,8 @@ int main(int argc, char** argv) {
     } else if (a == "--solver" && i + 3 < argc) {
       g_solver = {{"method", argv[i + 1]}, {"rtol", std::atof(argv[i + 2])}, {"atol", std::atof(argv[i + 3])}};
       i += 3;
+    } else if (a == "--velocity-atol" && i + 1 < argc && g_solver.is_object()) {
+      g_solver["velocity_atol_mm_s"] = std::atof(argv[++i]);
     } else {
       std::fprintf(stderr, "hostsim_refcheck: unknown argument %s\n", a.c_str());
       return 2;

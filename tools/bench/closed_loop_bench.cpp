@@ -43,6 +43,12 @@ void BM_ClosedLoop_DemoCycle(benchmark::State& state) {
     const benchrun::RunOutcome outcome = benchrun::run_scenario(machine, *scenario.scenario, &adapter, {});
     benchmark::DoNotOptimize(outcome);
     simulated_s += scenario.scenario->duration_s;
+    const hostsim::SolverStats& st = (*plant)->solver_stats();
+    state.counters["steps"] = static_cast<double>(st.accepted);
+    state.counters["rejected"] = static_cast<double>(st.rejected);
+    state.counters["rhs"] = static_cast<double>(st.rhs_calls);
+    state.counters["jacobians"] = static_cast<double>(st.jacobians);
+    state.counters["lu"] = static_cast<double>(st.factorisations);
   }
   state.counters["sim_s_per_wall_s"] = benchmark::Counter(simulated_s, benchmark::Counter::kIsRate);
 }

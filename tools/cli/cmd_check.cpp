@@ -1,4 +1,4 @@
-// `spoolstep check MACHINE.json [--summary] [--reference]`: loads a machine
+// `spoolstep check MACHINE.json [--summary] [--reference] [--plant-reference]`: loads a machine
 // file and reports every problem in it, or a one-line verdict and, on
 // request, a summary of what the core will run.
 #include <iostream>
@@ -18,9 +18,15 @@ struct CheckOptions {
   std::string machine_file;
   bool summary = false;
   bool reference = false;
+  bool plant_reference = false;
 };
 
 int run_check(const CheckOptions& options) {
+  if (options.plant_reference) {
+    // The copy between the markers in docs/plant-model.md is this text.
+    std::cout << hostsim::plant_parameter_table_markdown();
+    if (options.machine_file.empty() && !options.reference) return kExitOk;
+  }
   if (options.reference) {
     machine_file::write_parameter_reference(std::cout);
     if (options.machine_file.empty()) return kExitOk;
@@ -75,6 +81,8 @@ const bool kRegistered = register_command(Command{
       sub.add_option("MACHINE", options->machine_file, "Machine file (.json) to check");
       sub.add_flag("--summary", options->summary, "Also print a readable summary of the loaded machine");
       sub.add_flag("--reference", options->reference, "Print the machine-file parameter reference (Markdown)");
+      sub.add_flag("--plant-reference", options->plant_reference,
+                   "Print the parameter table of the plant section (Markdown, as in docs/plant-model.md)");
       sub.footer("Exit codes: 0 ok, 2 the machine file (control part or plant section) has errors, each printed to "
                  "stderr with its JSON path; 3 internal error (the core disagrees with the loader: a bug).");
       return [options] { return run_check(*options); };

@@ -26,8 +26,23 @@ enum class SolverMethod {
 struct SolverSettings {
   SolverMethod method = SolverMethod::kOdeintRosenbrock4;
   double rtol = 1e-5;
-  double atol = 1e-5;  ///< in state units: bar, mm, mm/s, stroke fraction, cm^3
+  /// Absolute tolerance in state units: bar (pressures), mm (positions),
+  /// stroke fraction (spools), cm^3 (oil accumulators). A second-order
+  /// spool's rate (stroke fraction/s) gets atol times its natural frequency,
+  /// so that its error weighs like the spool position's.
+  double atol = 1e-5;
+  /// Absolute tolerance of cylinder velocities (mm/s). Ros2 only; Odeint's
+  /// rosenbrock4 takes the one `atol` for every state.
+  double velocity_atol_mm_s = 1e-5;
+  /// The most scan periods the plant integrates ahead in one window under
+  /// unchanged inputs (see Plant::advance); 1 integrates period by period.
+  int max_window_periods = 1;
 };
+
+/// Per-state absolute tolerances of `settings` for this network (see
+/// SolverSettings::atol).
+std::vector<double> absolute_tolerances(const Network& net, const StateLayout& layout,
+                                        const SolverSettings& settings);
 
 struct SolverStats {
   std::size_t accepted = 0;
@@ -49,6 +64,9 @@ class Integrator {
   }
   /// Counters since construction.
   const SolverStats& stats() const { return do_stats(); }
+  /// The step size the error control proposes next (s); 0 before the first
+  /// step or after restart().
+  double step_hint() const { return do_step_hint(); }
   /// Forgets the step-size history (after a jump in the state).
   void restart() { do_restart(); }
   /// Tells the integrator that the inputs changed in a way that alters df/dy:
@@ -60,6 +78,7 @@ class Integrator {
   virtual bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,
                           const std::function<void(double, const std::vector<double>&)>& on_step) = 0;
   virtual const SolverStats& do_stats() const = 0;
+  virtual double do_step_hint() const = 0;
   virtual void do_restart() = 0;
   virtual void do_inputs_changed() = 0;
 };

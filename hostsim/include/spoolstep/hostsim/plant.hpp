@@ -72,6 +72,8 @@ struct OilBalance {
   double relative_residual() const;
 };
 
+class StepWindow;
+
 class Plant {
  public:
   Plant(const Plant&) = delete;
@@ -85,6 +87,11 @@ class Plant {
   /// Integrates from time_s() to time_s() + dt_s under the present commands.
   /// Switches are sampled at every internal step. Returns false (and keeps
   /// the last good state) if the integrator's step size collapsed.
+  /// While the commands stay as they were, the plant integrates up to
+  /// SolverSettings::max_window_periods periods ahead at once (as far as the
+  /// error control lets a step grow) and later calls read the state inside
+  /// that window by interpolation; a change of command drops the rest of
+  /// the window and integration goes on from the present state.
   bool advance(double dt_s);
   /// Writes every wired sensor into its input slot (4-20 mA as the input's
   /// signal says; healthy = true and age 0 unless a fault says otherwise).
@@ -130,7 +137,12 @@ class Plant {
   Plant(Network net, SolverSettings solver, std::unique_ptr<Wiring> wiring);
 
  private:
-  void sample_switches(const std::vector<double>& y);
+  void sample_switches(const double* y);
+  /// Integrates a new window from (time_s_, y_) that reaches at least t_end.
+  bool open_window(double t_end, double dt_s);
+  /// Forgets the step-size history and the window (the state or the
+  /// equations jumped).
+  void restart_integration();
   void restart_balance();
   int node_index(std::string_view name) const;
   int cylinder_index(std::string_view name) const;
@@ -139,6 +151,10 @@ class Plant {
   StateLayout layout_;
   SolverSettings solver_;
   std::unique_ptr<Integrator> integrator_;
+  std::unique_ptr<NetworkRhs> window_rhs_;  ///< slopes for interpolation inside the window
+  std::unique_ptr<StepWindow> window_;
+  std::vector<double> y_work_;              ///< the integrator's state while it fills a window
+  int window_periods_ = 1;                  ///< periods the next window may cover (grows in quiet stretches)
   std::unique_ptr<Wiring> wiring_;
   NetworkInputs inputs_;
   NetworkInputs last_inputs_;  ///< inputs of the previous advance(), to notice changes
