@@ -77,7 +77,7 @@ Plant::Plant(Network net, SolverSettings solver, std::unique_ptr<Wiring> wiring)
     : net_(std::move(net)), layout_(make_layout(net_)), solver_(solver), wiring_(std::move(wiring)) {
   integrator_ = make_integrator(net_, layout_, solver_);
   window_rhs_ = std::make_unique<NetworkRhs>(net_, layout_);
-  window_ = std::make_unique<StepWindow>(layout_.size);
+  window_ = std::make_unique<StepWindow>(absolute_tolerances(net_, layout_, solver_), solver_.rtol);
   element_constants_ = element_constants(net_);
   y_ = initial_state(net_, layout_);
   y_work_ = y_;

@@ -10,6 +10,7 @@
 //   --reuse   keep WORKDIR/reference.json from an earlier run (same case)
 //   --solver  integrate here with another method/tolerances (for measuring)
 //   --velocity-atol  after --solver: the cylinder velocity tolerance (mm/s)
+//   --window  after --solver: the most periods one integration window covers
 //   --machine the plant of this machine file (the README's demo press cell)
 //             with its own open-loop timeline, instead of the in-code demo
 #include <algorithm>
@@ -70,7 +71,7 @@ Timeline press_cell_cycle() {
 
 int main(int argc, char** argv) {
   if (argc < 4) {
-    std::fprintf(stderr, "usage: hostsim_refcheck PYTHON SCRIPT WORKDIR [--reuse] [--solver METHOD RTOL ATOL [--velocity-atol MM_S]]\n");
+    std::fprintf(stderr, "usage: hostsim_refcheck PYTHON SCRIPT WORKDIR [--reuse] [--solver METHOD RTOL ATOL [--velocity-atol MM_S] [--window PERIODS]]\n");
     return 2;
   }
   bool reuse = false;
@@ -90,6 +91,8 @@ int main(int argc, char** argv) {
       i += 3;
     } else if (a == "--velocity-atol" && i + 1 < argc && g_solver.is_object()) {
       g_solver["velocity_atol_mm_s"] = std::atof(argv[++i]);
+    } else if (a == "--window" && i + 1 < argc && g_solver.is_object()) {
+      g_solver["max_window_periods"] = std::atoi(argv[++i]);
     } else {
       std::fprintf(stderr, "hostsim_refcheck: unknown argument %s\n", a.c_str());
       return 2;
