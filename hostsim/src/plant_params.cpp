@@ -146,7 +146,7 @@ const ParamSpec kParams[] = {
     {"solver", "method", T::kString, "", 0, 0, 0, false, "ros2|rosenbrock4", "ros2: purpose-written Rosenbrock-W; rosenbrock4: Boost.Odeint"},
     {"solver", "rtol", T::kNumber, "", 1e-3, 1e-10, 1e-2, false, nullptr, "relative tolerance of the local error"},
     {"solver", "atol", T::kNumber, "bar, mm", 1e-2, 1e-10, 1, false, nullptr, "absolute tolerance of pressures (bar), positions (mm) and spools (stroke fraction)"},
-    {"solver", "max_window_periods", T::kNumber, "", 16, 1, 1000, false, nullptr, "most scan periods integrated ahead at once while the commands stay the same (1: period by period)"},
+    {"solver", "max_window_periods", T::kNumber, "", 16, 1, 1000, false, nullptr, "most scan periods integrated ahead at once while the commands stay the same (1: period by period; ros2 only)"},
     {"solver", "velocity_atol_mm_s", T::kNumber, "mm/s", 0.1, 1e-10, 100, false, nullptr, "absolute tolerance of cylinder velocities (ros2)"},
 };
 

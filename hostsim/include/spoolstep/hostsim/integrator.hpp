@@ -25,6 +25,10 @@ enum class SolverMethod {
 
 struct SolverSettings {
   SolverMethod method = SolverMethod::kOdeintRosenbrock4;
+  /// Relative tolerance of every state but cylinder positions, whose size
+  /// (the distance from the retracted end) says nothing about how exactly
+  /// they must be known: they take `atol` alone (Ros2; Odeint's rosenbrock4
+  /// takes `rtol` for every state).
   double rtol = 1e-5;
   /// Absolute tolerance in state units: bar (pressures), mm (positions),
   /// stroke fraction (spools), cm^3 (oil accumulators). A second-order
@@ -36,12 +40,17 @@ struct SolverSettings {
   double velocity_atol_mm_s = 1e-5;
   /// The most scan periods the plant integrates ahead in one window under
   /// unchanged inputs (see Plant::advance); 1 integrates period by period.
+  /// ros2 only: rosenbrock4 always integrates period by period.
   int max_window_periods = 1;
 };
 
 /// Per-state absolute tolerances of `settings` for this network (see
 /// SolverSettings::atol).
 std::vector<double> absolute_tolerances(const Network& net, const StateLayout& layout,
+                                        const SolverSettings& settings);
+/// Per-state relative tolerances: `rtol`, except cylinder positions (0:
+/// the absolute tolerance alone, see SolverSettings::rtol).
+std::vector<double> relative_tolerances(const Network& net, const StateLayout& layout,
                                         const SolverSettings& settings);
 
 struct SolverStats {

@@ -154,6 +154,16 @@ struct NetworkInputs {
   std::vector<double> extra_force_n;     ///< per cylinder, added resisting force (load change)
 };
 
+/// Same commands and faults, field by field (a field added to
+/// NetworkInputs must be added here: the plant keeps an integration window
+/// only while the inputs compare equal).
+inline bool operator==(const NetworkInputs& a, const NetworkInputs& b) {
+  return a.spool_target == b.spool_target && a.spool_stuck == b.spool_stuck && a.pump_running == b.pump_running &&
+         a.pump_flow_factor == b.pump_flow_factor && a.extra_leak_m3_s_pa == b.extra_leak_m3_s_pa &&
+         a.extra_force_n == b.extra_force_n;
+}
+inline bool operator!=(const NetworkInputs& a, const NetworkInputs& b) { return !(a == b); }
+
 /// Layout of the state vector. Pressures are stored in bar, positions in mm,
 /// velocities in mm/s and accumulated volumes in cm^3, so that one absolute
 /// tolerance fits every component; the physics converts to SI.

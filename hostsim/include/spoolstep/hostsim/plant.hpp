@@ -4,7 +4,8 @@
 /// and centre types, coil and channel names are read from there, never
 /// repeated), then stepped in lock-step with the core:
 ///   read_inputs -> core scan -> apply_outputs -> advance(period).
-/// Host code: it allocates at build time only; advance() does not throw.
+/// Host code: it allocates at build time, and in advance() only while the
+/// integration window's buffers grow to the run's working size.
 #include <cstddef>
 #include <memory>
 #include <string>
@@ -85,13 +86,15 @@ class Plant {
   /// states. Coil and channel faults are applied here.
   void apply_outputs(const core::OutputImage& out);
   /// Integrates from time_s() to time_s() + dt_s under the present commands.
-  /// Switches are sampled at every internal step. Returns false (and keeps
-  /// the last good state) if the integrator's step size collapsed.
-  /// While the commands stay as they were, the plant integrates up to
+  /// Switches are sampled at every internal step and at the end. Returns
+  /// false if the integrator's step size collapsed (state and time then
+  /// stay as they were) or dt_s is negative or NaN; dt_s = 0 does nothing.
+  /// While the commands stay as they were, the ros2 plant integrates up to
   /// SolverSettings::max_window_periods periods ahead at once (as far as the
   /// error control lets a step grow) and later calls read the state inside
-  /// that window by interpolation; a change of command drops the rest of
-  /// the window and integration goes on from the present state.
+  /// that window between its step points; a change of command, a fault or
+  /// a state set from outside drops the rest of the window and integration
+  /// goes on from the present state.
   bool advance(double dt_s);
   /// Writes every wired sensor into its input slot (4-20 mA as the input's
   /// signal says; healthy = true and age 0 unless a fault says otherwise).
@@ -140,6 +143,8 @@ class Plant {
   void sample_switches(const double* y);
   /// Integrates a new window from (time_s_, y_) that reaches at least t_end.
   bool open_window(double t_end, double dt_s);
+  /// The longest window the settings allow (1 for rosenbrock4).
+  int max_window_periods() const;
   /// Forgets the step-size history and the window (the state or the
   /// equations jumped).
   void restart_integration();
@@ -151,7 +156,6 @@ class Plant {
   StateLayout layout_;
   SolverSettings solver_;
   std::unique_ptr<Integrator> integrator_;
-  std::unique_ptr<NetworkRhs> window_rhs_;  ///< slopes for interpolation inside the window
   std::unique_ptr<StepWindow> window_;
   std::vector<double> y_work_;              ///< the integrator's state while it fills a window
   int window_periods_ = 1;                  ///< periods the next window may cover (grows in quiet stretches)
