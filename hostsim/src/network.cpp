@@ -135,6 +135,7 @@ double element_inverse(const Element& e) {
     case ElementKind::kSpoolEdge:
       return e.opening == EdgeOpening::kCentre ? 1.0 / e.centre_width : 1.0 / (1.0 - e.overlap);
     case ElementKind::kCheck:
+    case ElementKind::kCounterbalance:
       return 1.0 / e.full_open_span_pa;
     case ElementKind::kRelief:
       return 1.0 / e.override_pa_s_m3;
@@ -249,6 +250,14 @@ inline double element_flow_k(const StateLayout& layout, const Element& e, double
         const double pp = p[static_cast<std::size_t>(e.pilot)];
         open = std::max(open, smoothstep((e.pilot_ratio * pp + dp - e.cracking_pa) * inv));
       }
+      return orifice_flow_k(k, e.area_m2 * open + e.leak_area_m2, dp, ptr);
+    }
+    case ElementKind::kCounterbalance: {
+      // The load pressure across the valve and the pilot pressure (times
+      // the pilot ratio) both push it open against the spring setting:
+      // p_load + ratio p_pilot >= setting (common practice, no source).
+      const double pp = e.pilot >= 0 ? p[static_cast<std::size_t>(e.pilot)] : 0.0;
+      const double open = smoothstep((dp + e.pilot_ratio * pp - e.cracking_pa) * inv);
       return orifice_flow_k(k, e.area_m2 * open + e.leak_area_m2, dp, ptr);
     }
     case ElementKind::kRelief:

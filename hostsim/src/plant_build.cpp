@@ -446,7 +446,16 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
   // Cylinders: chambers, lines, optional load-holding checks.
   std::vector<CylinderPorts> ports(nf);
   std::set<std::string> cylinder_names;
-  struct PendingPoc { int line, chamber, pilot_side; std::string name; double ratio, crack, span, area; std::string path; };
+  // A valve at a cylinder port, added once every node exists. Positive
+  // flow goes from -> to: line -> chamber for the checks, chamber -> line
+  // for a counterbalance valve's relief.
+  struct PendingPoc {
+    int from, to, pilot_side;
+    std::string name;
+    double ratio, crack, span, area;
+    std::string path;
+    bool counterbalance = false;  // else a pilot-operated check
+  };
   std::vector<PendingPoc> pocs;
   for (std::size_t f = 0; f < nf; ++f) {
     const int ci = cylinder_of[f];
@@ -532,9 +541,31 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
     }
     const bool poc_a = side == "A" || side == "both";
     const bool poc_b = side == "B" || side == "both";
+    // Counterbalance valve: read here, its elements are added with the
+    // pilot-operated checks once both line nodes exist.
+    std::string cb_side = "none";
+    const json* cb = nullptr;
+    const std::string pcb = p + "/counterbalance";
+    const std::string scb = "cylinders[].counterbalance";
+    if (c.is_object() && c.contains("counterbalance")) {
+      cb = &c.at("counterbalance");
+      if (r.object(*cb, pcb, scb)) {
+        cb_side = r.string(*cb, pcb, scb, "side");
+      } else {
+        cb = nullptr;
+      }
+    }
+    const bool cb_a = cb != nullptr && cb_side == "A";
+    const bool cb_b = cb != nullptr && cb_side == "B";
+    if ((cb_a && poc_a) || (cb_b && poc_b)) {
+      r.error(pcb + "/side", "port " + cb_side + " already carries a load-holding check",
+              "use either load_holding or a counterbalance valve on one port");
+    }
     const int cyl_index = static_cast<int>(b.net.cylinders.size());
-    const int ch_a = b.add_node(cyl.name + ".A", dead_a + (poc_a ? 0.0 : line_a));
-    const int ch_b = b.add_node(cyl.name + ".B", dead_b + (poc_b ? 0.0 : line_b));
+    const bool valve_a = poc_a || cb_a;  // a valve at the port splits its line from the chamber
+    const bool valve_b = poc_b || cb_b;
+    const int ch_a = b.add_node(cyl.name + ".A", dead_a + (valve_a ? 0.0 : line_a));
+    const int ch_b = b.add_node(cyl.name + ".B", dead_b + (valve_b ? 0.0 : line_b));
     b.net.nodes[static_cast<std::size_t>(ch_a)].cylinder = cyl_index;
     b.net.nodes[static_cast<std::size_t>(ch_a)].side = 1;
     b.net.nodes[static_cast<std::size_t>(ch_b)].cylinder = cyl_index;
@@ -543,6 +574,16 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
     cyl.node_b = ch_b;
     ports[f].port_a = ch_a;
     ports[f].port_b = ch_b;
+    if (cb_a || cb_b) {
+      // The valve side of the counterbalance valve: its own line node,
+      // made before the load-holding checks so that their pilots see it.
+      const double line = cb_a ? line_a : line_b;
+      if (line <= 0.0) {
+        r.error(p + (cb_a ? "/line_volume_a_cm3" : "/line_volume_b_cm3"),
+                "a counterbalance valve needs a line volume on its valve side", "use a positive line volume");
+      }
+      (cb_a ? ports[f].port_a : ports[f].port_b) = b.add_node(cyl.name + "." + cb_side + "_line", std::max(line, 1e-6));
+    }
     if (lh != nullptr && (poc_a || poc_b)) {
       const std::string pl = p + "/load_holding";
       const std::string sl = "cylinders[].load_holding";
@@ -562,14 +603,29 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
       if (poc_a) pocs.push_back({ports[f].port_a, ch_a, ports[f].port_b, cyl.name + ".hold_A", ratio, crack, span, area, pl});
       if (poc_b) pocs.push_back({ports[f].port_b, ch_b, ports[f].port_a, cyl.name + ".hold_B", ratio, crack, span, area, pl});
     }
+    if (cb_a || cb_b) {
+      const int port = cb_a ? ports[f].port_a : ports[f].port_b;
+      const int chamber = cb_a ? ch_a : ch_b;
+      const int pilot = cb_a ? ports[f].port_b : ports[f].port_a;  // the other line (the one that drives)
+      const double area = area_for(r.number(*cb, pcb, scb, "rated_flow_l_min") * kLitrePerMin,
+                                   r.number(*cb, pcb, scb, "rated_dp_bar") * kBar, b.cd, rho);
+      PendingPoc relief{chamber, port, pilot, cyl.name + ".counterbalance_" + cb_side,
+                        r.number(*cb, pcb, scb, "pilot_ratio"), r.number(*cb, pcb, scb, "setting_bar") * kBar,
+                        r.number(*cb, pcb, scb, "full_open_bar") * kBar, area, pcb};
+      relief.counterbalance = true;
+      pocs.push_back(relief);
+      // The free-flow check into the chamber: a plain check, fully open 2 bar above cracking.
+      pocs.push_back({port, chamber, -1, cyl.name + ".counterbalance_" + cb_side + "_check", 0.0,
+                      r.number(*cb, pcb, scb, "check_cracking_bar") * kBar, 2.0 * kBar, area, pcb});
+    }
     b.net.cylinders.push_back(cyl);
   }
   for (const PendingPoc& q : pocs) {
     Element e;
-    e.kind = ElementKind::kCheck;
+    e.kind = q.counterbalance ? ElementKind::kCounterbalance : ElementKind::kCheck;
     e.name = q.name;
-    e.from = q.line;
-    e.to = q.chamber;
+    e.from = q.from;
+    e.to = q.to;
     e.cd = b.cd;
     e.area_m2 = q.area;
     e.cracking_pa = q.crack;

@@ -89,6 +89,7 @@ const ParamSpec kParams[] = {
     {"cylinders[]", "end_stop_damping_ratio", T::kNumber, "", 1, 0, 10, false, nullptr, "damping of the end stops, fraction of critical"},
     {"cylinders[]", "load", T::kObject, "", 0, 0, 0, false, nullptr, "external forces"},
     {"cylinders[]", "load_holding", T::kObject, "", 0, 0, 0, false, nullptr, "pilot-operated check valve(s) at the cylinder ports"},
+    {"cylinders[]", "counterbalance", T::kObject, "", 0, 0, 0, false, nullptr, "counterbalance valve at the port the load pressurises (an overrunning load)"},
     {"cylinders[].load", "resisting_force_n", T::kNumber, "N", 0, -1e8, 1e8, false, nullptr, "constant force against extension"},
     {"cylinders[].load", "gravity", T::kString, "", 0, 0, 0, false, "none|extend|retract", "direction in which the weight of the mass pulls"},
     {"cylinders[].load", "contact", T::kObject, "", 0, 0, 0, false, nullptr, "a workpiece met during extension"},
@@ -104,6 +105,18 @@ const ParamSpec kParams[] = {
     {"cylinders[].load_holding", "full_open_bar", T::kNumber, "bar", 3, 0.1, 100, false, nullptr, "pressure above cracking at which it is fully open"},
     {"cylinders[].load_holding", "rated_flow_l_min", T::kNumber, "L/min", 0, 0.1, 2000, true, nullptr, "flow at rated_dp_bar, fully open"},
     {"cylinders[].load_holding", "rated_dp_bar", T::kNumber, "bar", 5, 0.1, 100, false, nullptr, "pressure drop at rated flow"},
+    // Counterbalance valve: a relief in the line of the loaded chamber, set
+    // above the load pressure (commonly about 1.3 times it), opened by the
+    // load pressure plus pilot ratio times the pressure of the other line;
+    // a free-flow check lets oil in (common practice, no source; the pilot
+    // ratio range 3:1 to 8:1 and the setting rule are from memory).
+    {"cylinders[].counterbalance", "side", T::kString, "", 0, 0, 0, true, "A|B", "the chamber the load pressurises; the valve sits in its line, piloted from the other line"},
+    {"cylinders[].counterbalance", "setting_bar", T::kNumber, "bar", 0, 1, 700, true, nullptr, "load pressure at which it opens without pilot (commonly 1.3 x the load pressure)"},
+    {"cylinders[].counterbalance", "pilot_ratio", T::kNumber, "", 3, 1, 20, false, nullptr, "pilot area / relief seat area"},
+    {"cylinders[].counterbalance", "full_open_bar", T::kNumber, "bar", 20, 0.1, 200, false, nullptr, "pressure above the setting at which it is fully open (its metering band)"},
+    {"cylinders[].counterbalance", "rated_flow_l_min", T::kNumber, "L/min", 0, 0.1, 2000, true, nullptr, "flow at rated_dp_bar, fully open (both directions)"},
+    {"cylinders[].counterbalance", "rated_dp_bar", T::kNumber, "bar", 5, 0.1, 100, false, nullptr, "pressure drop at rated flow"},
+    {"cylinders[].counterbalance", "check_cracking_bar", T::kNumber, "bar", 1, 0, 50, false, nullptr, "cracking pressure of the free-flow check (into the chamber)"},
 
     {"sensors[]", "kind", T::kString, "", 0, 0, 0, true, "pressure|position|limit_switch|pressure_switch", "what it measures"},
     {"sensors[]", "input", T::kString, "", 0, 0, 0, true, nullptr, "machine-file input it drives (analog for transducers, digital for switches)"},

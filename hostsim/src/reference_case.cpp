@@ -74,6 +74,7 @@ const char* element_kind(ElementKind k) {
     case ElementKind::kOrifice: return "orifice";
     case ElementKind::kSpoolEdge: return "spool_edge";
     case ElementKind::kCheck: return "check";
+    case ElementKind::kCounterbalance: return "counterbalance";
     case ElementKind::kRelief: return "relief";
     case ElementKind::kLaminar: return "laminar";
   }

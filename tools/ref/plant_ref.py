@@ -133,6 +133,11 @@ class Model:
                 pp = p[e["pilot"]]
                 op = max(op, smoothstep((e["pilot_ratio"] * pp + dp - e["cracking_pa"]) / e["full_open_span_pa"]))
             return self.orifice(e["cd"], e["area_m2"] * op + e["leak_area_m2"], dp)
+        if k == "counterbalance":
+            # load pressure across it plus pilot ratio x pilot pressure against the setting
+            pp = p[e["pilot"]] if e["pilot"] >= 0 else 0.0
+            op = smoothstep((dp + e["pilot_ratio"] * pp - e["cracking_pa"]) / e["full_open_span_pa"])
+            return self.orifice(e["cd"], e["area_m2"] * op + e["leak_area_m2"], dp)
         if k == "relief":
             return soft_positive(dp - e["cracking_pa"], e["blend_pa"]) / e["override_pa_s_m3"]
         if k == "laminar":

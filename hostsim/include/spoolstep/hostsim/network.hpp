@@ -52,6 +52,11 @@ enum class ElementKind {
   kOrifice,   ///< fixed area, orifice equation
   kSpoolEdge, ///< area from a spool position, orifice equation
   kCheck,     ///< area from the pressure across it (and an optional pilot), orifice equation
+  /// Counterbalance valve (load-holding relief, pilot assisted): opens from
+  /// the loaded chamber (from) to the valve line (to) as the load pressure
+  /// across it plus pilot_ratio times the pilot pressure passes the setting
+  /// (cracking_pa), fully open full_open_span_pa above; orifice equation.
+  kCounterbalance,
   kRelief,    ///< flow = blended(p_from - p_to - cracking) / override gradient
   kLaminar,   ///< flow = conductance * (p_from - p_to)
 };
@@ -69,7 +74,7 @@ struct Element {
   EdgeOpening opening = EdgeOpening::kPositive;
   double overlap = 0.0;       ///< fraction of spool stroke (0..0.5)
   double centre_width = 0.0;  ///< kCentre: fraction of stroke over which the passage closes
-  // check valve, optionally pilot operated
+  // check valve, optionally pilot operated; counterbalance valve (setting)
   double cracking_pa = 0.0;
   double full_open_span_pa = 0.0;  ///< pressure above cracking at which the check is fully open
   int pilot = -1;                  ///< pilot node, -1 = plain check
