@@ -15,21 +15,22 @@ using hostsim::FaultKind;
 struct FaultName {
   const char* name;
   FaultKind kind;
-  const char* target_kind;  // what the target names
+  const char* target_kind;  // what the target names: function, output, input, analog input, cylinder, none
+  const char* value;        // what "value" means, or nullptr if the kind takes none
 };
 
 const FaultName kFaultNames[] = {
-    {"stuck_spool", FaultKind::kStuckSpool, "function"},
-    {"coil_open", FaultKind::kCoilOpen, "output"},
-    {"coil_short", FaultKind::kCoilShort, "output"},
-    {"sensor_wire_break", FaultKind::kSensorWireBreak, "input"},
-    {"sensor_stuck", FaultKind::kSensorStuck, "input"},
-    {"sensor_drift", FaultKind::kSensorDrift, "input"},
-    {"sensor_fail_low", FaultKind::kSensorFailLow, "input"},
-    {"sensor_fail_high", FaultKind::kSensorFailHigh, "input"},
-    {"seal_leak", FaultKind::kSealLeak, "cylinder"},
-    {"pump_failure", FaultKind::kPumpFailure, "none"},
-    {"load_change", FaultKind::kLoadChange, "cylinder"},
+    {"stuck_spool", FaultKind::kStuckSpool, "function", nullptr},
+    {"coil_open", FaultKind::kCoilOpen, "output", nullptr},
+    {"coil_short", FaultKind::kCoilShort, "output", nullptr},
+    {"sensor_wire_break", FaultKind::kSensorWireBreak, "input", nullptr},
+    {"sensor_stuck", FaultKind::kSensorStuck, "input", nullptr},
+    {"sensor_drift", FaultKind::kSensorDrift, "analog input", "the drift in the input's unit per second"},
+    {"sensor_fail_low", FaultKind::kSensorFailLow, "analog input", nullptr},
+    {"sensor_fail_high", FaultKind::kSensorFailHigh, "analog input", nullptr},
+    {"seal_leak", FaultKind::kSealLeak, "cylinder", "the added leak coefficient in mm^3/s per bar"},
+    {"pump_failure", FaultKind::kPumpFailure, "none", "the remaining fraction of the pump flow, 0 to 1"},
+    {"load_change", FaultKind::kLoadChange, "cylinder", "the added resisting force in N"},
 };
 
 bool ends_with(const std::string& name, const char* suffix) {
@@ -101,17 +102,25 @@ PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& m
   for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = low.analog[i].value == high.analog[i].value;
   for (const auto& s : signals) facts.signal_names.push_back(s.name);
   // Valid targets by kind, so a misspelt target is bad input at load time.
-  std::vector<std::string> functions, inputs, outputs, cylinders;
+  // Sensor faults act on the plant's sensors: only inputs a plant sensor
+  // drives can take one, and drift or a transmitter failure only analog ones.
+  std::vector<std::string> functions, inputs, analog_inputs, outputs, cylinders;
   for (std::uint8_t i = 0; i < machine.function_count; ++i) functions.emplace_back(machine_file::name_view(machine.functions[i].name));
-  for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) inputs.emplace_back(machine_file::name_view(machine.digital_inputs[i]));
-  for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) inputs.emplace_back(machine_file::name_view(machine.analog_inputs[i].name));
+  for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) {
+    if (facts.plant_digital[i]) inputs.emplace_back(machine_file::name_view(machine.digital_inputs[i]));
+  }
+  for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) {
+    if (!facts.plant_analog[i]) continue;
+    inputs.emplace_back(machine_file::name_view(machine.analog_inputs[i].name));
+    analog_inputs.emplace_back(machine_file::name_view(machine.analog_inputs[i].name));
+  }
   for (std::uint8_t i = 0; i < machine.coil_count; ++i) outputs.emplace_back(machine_file::name_view(machine.coils[i]));
   for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) outputs.emplace_back(machine_file::name_view(machine.prop_outputs[i].name));
   for (const auto& s : signals) {
     if (ends_with(s.name, ".x_mm")) cylinders.push_back(s.name.substr(6, s.name.size() - 6 - 5));  // "plant." ... ".x_mm"
   }
   using Problem = PlantFacts::FaultProblem;
-  facts.check_fault = [functions, inputs, outputs, cylinders](const nlohmann::json& f) -> std::optional<Problem> {
+  facts.check_fault = [functions, inputs, analog_inputs, outputs, cylinders](const nlohmann::json& f) -> std::optional<Problem> {
     if (!f.is_object()) return Problem{"", "a plant fault is an object: {\"kind\": ..., \"target\": ..., \"value\": ...}"};
     for (const auto& [key, value] : f.items()) {
       if (key != "kind" && key != "target" && key != "value")
@@ -127,19 +136,30 @@ PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& m
       return Problem{"kind", fmt::format("unknown plant fault kind '{}' (kinds: {})", kind, all)};
     }
     const std::string target_kind = found->target_kind;
-    if (target_kind != "none") {
+    if (target_kind == "none") {
+      if (f.contains("target")) return Problem{"target", fmt::format("a {} fault takes no \"target\"", kind)};
+    } else {
       if (!f.contains("target") || !f["target"].is_string())
         return Problem{"target", fmt::format("a {} fault needs \"target\": the {} name", kind, target_kind)};
       const std::string target = f["target"].get<std::string>();
-      const std::vector<std::string>& names = target_kind == "function" ? functions
-                                              : target_kind == "input"  ? inputs
-                                              : target_kind == "output" ? outputs
-                                                                        : cylinders;
+      const bool sensor = target_kind == "input" || target_kind == "analog input";
+      const std::vector<std::string>& names = target_kind == "function"       ? functions
+                                              : target_kind == "input"        ? inputs
+                                              : target_kind == "analog input" ? analog_inputs
+                                              : target_kind == "output"       ? outputs
+                                                                              : cylinders;
       if (std::find(names.begin(), names.end(), target) == names.end()) {
         std::string list;
         for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
-        return Problem{"target", fmt::format("no {} named '{}' (the {}s: {})", target_kind, target, target_kind, list)};
+        return Problem{"target", fmt::format("no {} named '{}'{} (the {}s{}: {})", target_kind, target,
+                                             sensor ? " that a plant sensor drives" : "", target_kind,
+                                             sensor ? " with a sensor" : "", list.empty() ? "none" : list)};
       }
+    }
+    if (found->value == nullptr) {
+      if (f.contains("value")) return Problem{"value", fmt::format("a {} fault takes no \"value\"", kind)};
+    } else if (!f.contains("value")) {
+      return Problem{"value", fmt::format("a {} fault needs \"value\": {}", kind, found->value)};
     }
     if (f.contains("value") && !f["value"].is_number()) return Problem{"value", "\"value\" must be a number"};
     const double value = f.value("value", 0.0);

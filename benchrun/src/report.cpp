@@ -229,6 +229,10 @@ std::string report_html(const RunReport& r) {
 
 StagedDirectory::StagedDirectory(fs::path target) : target_(std::move(target)) {
   std::error_code ec;
+  if (target_.empty()) {
+    error_ = "--out names no directory; give the folder for the results";
+    return;
+  }
   const fs::path absolute = fs::absolute(target_, ec);
   if (ec) { error_ = "cannot resolve " + target_.string() + ": " + ec.message(); return; }
   target_ = absolute.lexically_normal();
@@ -263,6 +267,8 @@ StagedDirectory::StagedDirectory(fs::path target) : target_(std::move(target)) {
   fs::remove_all(staging_, ec);
   if (!fs::create_directory(staging_, ec) || ec) {
     error_ = "cannot create " + staging_.string() + ": " + ec.message();
+    write_failed_ = true;
+    staging_.clear();
     return;
   }
   std::ofstream(staging_ / kMarker) << "spoolstep bench run output\n";

@@ -267,6 +267,8 @@ class Reader {
       x.min = number(e, path, "min", -1e12, 1e12, false).value_or(-1e300);
       x.max = number(e, path, "max", -1e12, 1e12, false).value_or(1e300);
       if (!e.contains("min") && !e.contains("max")) error(path, "needs 'min', 'max' or both", "Give the allowed range.");
+      if (e.contains("min") && e.contains("max") && x.min > x.max)
+        error(path + "/min", fmt::format("min {} is above max {}: nothing could pass", x.min, x.max), "Swap them or fix one.");
     };
     if (*kind == "step_reached") {
       x.kind = Expectation::Kind::kStepReached;
@@ -290,6 +292,9 @@ class Reader {
       range();
       x.from_s = number(e, path, "from_s", 0.0, 1e6, false).value_or(0.0);
       x.to_s = number(e, path, "to_s", 0.0, 1e6, false).value_or(1e300);
+      if (x.from_s > x.to_s)
+        error(path + "/from_s", fmt::format("the window ends ({} s) before it starts ({} s)", x.to_s, x.from_s),
+              "Swap from_s and to_s.");
     } else if (*kind == "still_while_off") {
       x.kind = Expectation::Kind::kStillWhileOff;
       signal();
@@ -323,7 +328,8 @@ class Reader {
     if (format && *format != kScenarioFormatTag)
       error("/format", fmt::format("unsupported format '{}'", *format), fmt::format("This version reads \"{}\".", kScenarioFormatTag));
     scenario->description = text(doc, "", "description", false).value_or("");
-    scenario->duration_s = number(doc, "", "duration_s", 0.001, 86400.0, true).value_or(0.0);
+    const auto duration = number(doc, "", "duration_s", 0.001, 86400.0, true);
+    scenario->duration_s = duration.value_or(0.0);
     if (doc.contains("initial")) {
       const json& init = doc["initial"];
       json as_entry = json::object();
@@ -361,12 +367,23 @@ class Reader {
         expectation(doc["expect"][k], "/expect/" + std::to_string(k), signals, scenario->expectations);
       }
     }
-    for (const TimelineEvent& ev : scenario->events) {
+    // Times after the end of the run would be silently ignored (checked only
+    // with a valid duration: a bad one is its own error).
+    for (const TimelineEvent& ev : duration ? scenario->events : std::vector<TimelineEvent>{}) {
       // A pulse's release may fall after the end; anything else there would be silently ignored.
       const bool pulse_release = ev.kind == TimelineEvent::Kind::kSetDigital && ev.value == 0.0 &&
                                  ev.json_path.find("/pulse") != std::string::npos;
       if (static_cast<double>(ev.at_us) * 1e-6 > scenario->duration_s + 1e-9 && !pulse_release)
         error(ev.json_path, "happens after the end of the run", "Raise duration_s or move the event.");
+    }
+    for (const Expectation& x : duration ? scenario->expectations : std::vector<Expectation>{}) {
+      const bool at_kind = x.kind == Expectation::Kind::kStateAt || x.kind == Expectation::Kind::kSafeWithin;
+      if (at_kind && x.at_s > scenario->duration_s + 1e-9)
+        error(x.json_path + "/at_s", fmt::format("{} s is after the end of the run ({} s)", x.at_s, scenario->duration_s),
+              "Raise duration_s or move the check.");
+      if (x.kind == Expectation::Kind::kStaysWithin && x.from_s > scenario->duration_s + 1e-9)
+        error(x.json_path + "/from_s", fmt::format("{} s is after the end of the run ({} s)", x.from_s, scenario->duration_s),
+              "Raise duration_s or move the window.");
     }
     std::stable_sort(scenario->events.begin(), scenario->events.end(),
                      [](const TimelineEvent& a, const TimelineEvent& b) { return a.at_us < b.at_us; });

@@ -58,6 +58,30 @@ grep -q "/plant_fault/target: no input named 'press_postion'" "$work/target_err.
 [ -e "$work/bad" ] && fail "output directory created for bad input"
 [ -e "$work/bad.partial" ] && fail "staging directory created for bad input"
 
+# A sensor fault needs an input a plant sensor drives (oil_temperature has
+# none in the demo), and a fault's value is required where the kind takes
+# one: both bad input at load time.
+sed 's/"target": "press_position"/"target": "oil_temperature"/' "$scenario" >"$work/no_sensor.json"
+"$bin" sim "$machine" "$work/no_sensor.json" --out "$work/no_sensor" >/dev/null 2>"$work/no_sensor_err.txt"
+[ $? -eq 2 ] || fail "a sensor fault on an input without a sensor should be refused"
+grep -q "no input named 'oil_temperature' that a plant sensor drives" "$work/no_sensor_err.txt" || fail "no-sensor message: $(cat "$work/no_sensor_err.txt")"
+[ -e "$work/no_sensor" ] && fail "output directory created for a fault without a sensor"
+sed 's/{"kind": "sensor_wire_break", "target": "press_position"}/{"kind": "pump_failure"}/' "$scenario" >"$work/no_value.json"
+"$bin" sim "$machine" "$work/no_value.json" --out "$work/no_value" >/dev/null 2>"$work/no_value_err.txt"
+[ $? -eq 2 ] || fail "a pump failure without a value should be refused"
+grep -q '/plant_fault/value: a pump_failure fault needs "value"' "$work/no_value_err.txt" || fail "no-value message: $(cat "$work/no_value_err.txt")"
+
+# An expectation nothing could pass is bad input, not a failed run.
+sed 's/"max": 215}/"min": 300, "max": 215}/' "$scenario" >"$work/min_max.json"
+"$bin" sim "$machine" "$work/min_max.json" --out "$work/min_max" >/dev/null 2>"$work/min_max_err.txt"
+[ $? -eq 2 ] || fail "min above max should be refused"
+grep -q "/expect/2/min: min 300 is above max 215" "$work/min_max_err.txt" || fail "min/max message: $(cat "$work/min_max_err.txt")"
+
+# Results that cannot be written: exit 3 (here /proc takes no new folders, even for root).
+"$bin" sim "$machine" "$scenario" --out /proc/spoolstep-sim-test/run -q >/dev/null 2>"$work/unwritable_err.txt"
+code=$?
+[ $code -eq 3 ] || fail "an unwritable --out: exit code $code, expected 3 ($(cat "$work/unwritable_err.txt"))"
+
 # A plant-driven input may not be scripted.
 sed 's/"oil_level_ok": true}/"oil_level_ok": true, "press_top_ls": true}/' "$scenario" >"$work/driven.json"
 "$bin" sim "$machine" "$work/driven.json" --out "$work/driven" >/dev/null 2>"$work/driven_err.txt"
@@ -78,8 +102,8 @@ grep -q '"passed": false' "$work/late/summary.json" || fail "summary should say 
 
 # The current directory (or above it) is never an --out.
 mkdir -p "$work/here"
-(cd "$work/here" && "$bin" sim "$machine" "$scenario" --out . -q >/dev/null 2>&1)
-[ $? -eq 2 ] || fail "--out . should be refused"
+(cd "$work/here" && "$bin" sim "$machine" "$scenario" --out . -q >/dev/null 2>"$work/here_err.txt")
+[ $? -eq 2 ] || fail "--out . should be refused: $(cat "$work/here_err.txt")"
 [ -d "$work/here" ] || fail "the current directory was removed"
 
 if [ "$failures" -eq 0 ]; then echo "sim tests: all passed"; exit 0; fi

@@ -64,7 +64,7 @@ int run_sim(const SimOptions& o) {
   benchrun::StagedDirectory out(o.out_dir);
   if (!out.error().empty()) {
     std::cerr << "spoolstep sim: " << out.error() << "\n";
-    return kExitBadInput;
+    return out.write_failed() ? kExitInternal : kExitBadInput;
   }
   std::ofstream csv_file(out.file("trace.csv"), std::ios::binary);
   std::ofstream vcd_file(out.file("io.vcd"), std::ios::binary);
@@ -143,7 +143,8 @@ const bool kRegistered = register_command(Command{
       sub.add_option("--out", options->out_dir, "Output directory (created or replaced whole)")->required();
       sub.add_flag("-q,--quiet", options->quiet, "No progress lines");
       sub.footer("Exit codes: 0 every expectation passed, 1 an expectation failed or the run stopped early, "
-                 "2 bad input (nothing written), 3 internal error.");
+                 "2 bad input (nothing written), 3 the results could not be written (earlier results are left untouched) "
+                 "or an internal error.");
       return [options] { return run_sim(*options); };
     },
     "Run the control core against the hydraulic plant model in closed loop and report"});

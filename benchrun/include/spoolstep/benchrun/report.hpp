@@ -50,6 +50,9 @@ class StagedDirectory {
   StagedDirectory& operator=(const StagedDirectory&) = delete;
   /// Empty when the staging folder is ready.
   const std::string& error() const { return error_; }
+  /// Whether error() is a failure to write (permissions, read-only or full
+  /// file system) rather than an unsuitable target the user named.
+  bool write_failed() const { return write_failed_; }
   /// Path of a file inside the staging folder.
   std::filesystem::path file(const std::string& name) const { return staging_ / name; }
   /// Replaces `target` with the staged folder. A target that exists must be
@@ -61,6 +64,7 @@ class StagedDirectory {
   std::filesystem::path target_;
   std::filesystem::path staging_;
   std::string error_;
+  bool write_failed_ = false;
   bool committed_ = false;
 };
 
