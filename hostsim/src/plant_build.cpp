@@ -500,6 +500,10 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
           const std::string pk = pl + "/contact";
           if (r.object(k, pk, "cylinders[].load.contact")) {
             cyl.contact_m = r.number(k, pk, "cylinders[].load.contact", "at_mm") * 1e-3;
+            if (k.contains("at_mm") && cyl.contact_m > cyl.stroke_m) {
+              r.error(pk + "/at_mm", "the workpiece is beyond the stroke: the rod never reaches it",
+                      "put it inside 0 .. stroke_mm");
+            }
             cyl.contact_n_m = r.number(k, pk, "cylinders[].load.contact", "stiffness_n_mm") * 1e3;
             cyl.contact_n_s_m = r.number(k, pk, "cylinders[].load.contact", "damping_ratio") * 2.0 *
                                 std::sqrt(cyl.contact_n_m * std::max(cyl.mass_kg, 0.1));
@@ -991,6 +995,14 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
         sn.hysteresis_si = r.number(o, p, s, "hysteresis_mm") * 1e-3;
         sn.active_above = r.string(o, p, s, "active") == "above";
         if (sn.cylinder < 0) continue;
+        // A switching point off the stroke would read the same all the time.
+        const double stroke = b.net.cylinders[static_cast<std::size_t>(sn.cylinder)].stroke_m;
+        if (o.contains("at_mm") && (sn.threshold_si < 0.0 || sn.threshold_si > stroke)) {
+          char buf[160];
+          std::snprintf(buf, sizeof buf, "%g mm is off the cylinder's stroke (0 .. %g mm): the switch would never change",
+                        sn.threshold_si * 1e3, stroke * 1e3);
+          r.error(p + "/at_mm", buf, "put the switching point on the stroke");
+        }
       } else {
         allow_only({"at", "above_bar", "below_bar", "hysteresis_bar"});
         need("at");

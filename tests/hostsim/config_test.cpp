@@ -104,6 +104,21 @@ TEST(PlantConfig, SensorsMustNameExistingInputsAndNodes) {
   EXPECT_TRUE(has_error(errors, "/plant/sensors/3/kind", "not one of the allowed values")) << all(errors);
 }
 
+// A switching point or a workpiece the rod can never reach would read the
+// same all run long: refused, as an initial position off the stroke is.
+TEST(PlantConfig, SwitchPointsAndWorkpiecesMustBeOnTheStroke) {
+  Rig rig = valid();
+  rig.plant["sensors"] = nlohmann::json::parse(
+      R"([{"kind": "limit_switch", "cylinder": "cyl", "at_mm": 700, "active": "above", "input": "at_end"}])");
+  rig.plant["cylinders"][0]["load"] = {{"contact", {{"at_mm", 600}, {"stiffness_n_mm", 1e5}}}};
+  const auto errors = errors_of(rig);
+  EXPECT_TRUE(has_error(errors, "/plant/sensors/0/at_mm", "off the cylinder's stroke (0 .. 500 mm)")) << all(errors);
+  EXPECT_TRUE(has_error(errors, "/plant/cylinders/0/load/contact/at_mm", "beyond the stroke")) << all(errors);
+  rig.plant["sensors"][0]["at_mm"] = 500;
+  rig.plant["cylinders"][0]["load"]["contact"]["at_mm"] = 450;
+  EXPECT_TRUE(errors_of(rig).empty()) << all(errors_of(rig));
+}
+
 TEST(PlantConfig, WrongJsonTypesNeverThrow) {
   Rig rig = valid();
   rig.plant["valves"] = 5;
