@@ -303,6 +303,7 @@ class Ros2 final : public Integrator {
       if (jac_age_ < 0) {
         eval_.grouped_jacobian(in, t, y.data(), jac_.data());
         jac_age_ = 0;
+        jac_miss_sum_ = 0.0;
         h_lu_ = 0.0;
         std::copy(eval_.f0().begin(), eval_.f0().end(), f0_.begin());
         f0_known = true;
@@ -356,9 +357,14 @@ class Ros2 final : public Integrator {
         const double sc = atol_[i] + rtol_[i] * std::max(std::fabs(y[i]), std::fabs(ynew_[i]));
         err = std::max(err, std::fabs(e) / sc);
       }
-      if (jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
+      // What a stale Jacobian misses is often the same way step after step
+      // (a node linearised with its relief open, after the relief closed),
+      // so the misses add up where the error estimate cannot see them:
+      // their sum since the last Jacobian is held to the tolerance.
+      if (jac_miss_sum_ + jac_miss > kJacobianMissRefresh) jac_age_ = kMaxJacobianAge;  // fresh one for the next step
       if (err <= 1.0 && std::isfinite(err)) {
         ++eval_.stats.accepted;
+        jac_miss_sum_ += jac_miss;
         std::copy(ynew_.begin(), ynew_.end(), y.begin());
         f0_known = false;
         t = last ? t_end : t + hs;
@@ -538,6 +544,7 @@ class Ros2 final : public Integrator {
   double h_ = 0.0;
   double h_lu_ = 0.0;
   int jac_age_ = -1;
+  double jac_miss_sum_ = 0.0;  // Jacobian check misses of the accepted steps since the last Jacobian
 };
 
 }  // namespace
