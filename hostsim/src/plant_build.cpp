@@ -125,7 +125,8 @@ class Reader {
     const double x = v.get<double>();
     if (s != nullptr && (x < s->min || x > s->max || !std::isfinite(x))) {
       char buf[160];
-      std::snprintf(buf, sizeof buf, "%g is outside the range %g .. %g %s", x, s->min, s->max, s->unit);
+      std::snprintf(buf, sizeof buf, "%g is outside the range %g .. %g%s%s", x, s->min, s->max, s->unit[0] ? " " : "",
+                    s->unit);
       error(p, buf, "use a value inside the range");
       return def;
     }

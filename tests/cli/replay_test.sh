@@ -21,6 +21,9 @@ grep -q "replay" "$work/help.txt" || fail "--help does not list replay"
 grep -q "check" "$work/help.txt" || fail "--help does not list check"
 "$bin" replay --help >/dev/null 2>&1
 expect_code 0 $? "replay --help"
+"$bin" bogus >/dev/null 2>"$work/bogus.txt"
+expect_code 2 $? "an unknown command"
+grep -q "unknown command 'bogus'; the commands are check, export, replay, sim" "$work/bogus.txt" || fail "unknown command message: $(cat "$work/bogus.txt")"
 
 "$bin" check "$machine" >/dev/null 2>&1
 expect_code 0 $? "check demo machine"

@@ -4,6 +4,7 @@
 #include <exception>
 #include <iostream>
 #include <map>
+#include <string>
 
 #include "command_registry.hpp"
 
@@ -35,6 +36,20 @@ int main(int argc, char** argv) {
   for (auto& command : commands) {
     CLI::App* sub = app.add_subcommand(command.name, command.description);
     runners[sub] = command.setup(*sub);
+  }
+  // A first word that is no command gets named, with the commands there are
+  // (the parser alone would only say that a subcommand is required).
+  if (argc > 1 && argv[1][0] != '-') {
+    const std::string first = argv[1];
+    const bool known = std::any_of(commands.begin(), commands.end(),
+                                   [&first](const Command& c) { return c.name == first; });
+    if (!known) {
+      std::string names;
+      for (const auto& c : commands) names += (names.empty() ? "" : ", ") + c.name;
+      std::cerr << "spoolstep: unknown command '" << first << "'; the commands are " << names
+                << " (spoolstep --help)\n";
+      return kExitBadInput;
+    }
   }
   try {
     app.parse(argc, argv);
