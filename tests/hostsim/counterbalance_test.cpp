@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <cstdio>
+#include <memory>
 
 #include "rig.hpp"
 
@@ -40,6 +41,17 @@ Rig hanging_on_counterbalance(bool with_valve) {
   return rig;
 }
 
+// Builds the rig, lets the load settle 0.3 s, commands the spool to
+// `target` and runs 0.3 s more, so that the motion is steady.
+std::unique_ptr<Plant> moving(const Rig& rig, double target) {
+  auto p = build(rig);
+  if (!p) return p;
+  run(*p, 0.3);
+  EXPECT_TRUE(p->set_spool_target("f", target));
+  run(*p, 0.3);
+  return p;
+}
+
 TEST(PlantCounterbalance, FloatCentreHoldsTheHangingLoad) {
   auto p = build(hanging_on_counterbalance(true));
   ASSERT_TRUE(p);
@@ -61,11 +73,8 @@ TEST(PlantCounterbalance, FloatCentreHoldsTheHangingLoad) {
 // it, and the cap side stays pressurised: the valve meters where
 // p_B - p_line + ratio p_A = setting + the part of its band it is open.
 TEST(PlantCounterbalance, LowersAtThePumpsPaceUnderPilotPressure) {
-  auto p = build(hanging_on_counterbalance(true));
+  auto p = moving(hanging_on_counterbalance(true), 1.0);
   ASSERT_TRUE(p);
-  run(*p, 0.3);
-  ASSERT_TRUE(p->set_spool_target("f", 1.0));
-  run(*p, 0.3);
   const double x1 = p->cylinder_position("cyl");
   double min_pa = 1e9;
   for (int i = 0; i < 1000; ++i) {
@@ -99,11 +108,8 @@ TEST(PlantCounterbalance, LowersAtThePumpsPaceUnderPilotPressure) {
 TEST(PlantCounterbalance, LiftsThroughItsFreeFlowCheck) {
   Rig rig = hanging_on_counterbalance(true);
   rig.plant["cylinders"][0]["initial_position_mm"] = 450;
-  auto p = build(rig);
+  auto p = moving(rig, -1.0);
   ASSERT_TRUE(p);
-  run(*p, 0.3);
-  ASSERT_TRUE(p->set_spool_target("f", -1.0));
-  run(*p, 0.3);
   const double x1 = p->cylinder_position("cyl");
   run(*p, 1.0);
   EXPECT_NEAR(x1 - p->cylinder_position("cyl"), 0.23817, 0.23817 * 1e-2);
@@ -117,11 +123,8 @@ TEST(PlantCounterbalance, LiftsThroughItsFreeFlowCheck) {
 TEST(PlantCounterbalance, LightlyDampedLoadHunts) {
   Rig rig = hanging_on_counterbalance(true);
   rig.plant["cylinders"][0]["viscous_n_s_m"] = 2000;
-  auto p = build(rig);
+  auto p = moving(rig, 1.0);
   ASSERT_TRUE(p);
-  run(*p, 0.3);
-  ASSERT_TRUE(p->set_spool_target("f", 1.0));
-  run(*p, 0.3);
   const double x1 = p->cylinder_position("cyl");
   double v_min = 1e9, v_max = -1e9, p_min = 1e9;
   for (int i = 0; i < 1000; ++i) {
