@@ -85,21 +85,13 @@ std::optional<std::string> PlantAdapter::do_inject(const nlohmann::json& fault) 
   return fmt::format("unknown plant fault kind '{}'", kind);
 }
 
-// Which inputs the plant drives: an input the plant writes has the same
-// value whatever it held before; one it leaves alone keeps the probe value.
 PlantFacts plant_facts(const hostsim::Plant& plant, const core::MachineConfig& machine,
                        const std::vector<Signal>& signals) {
   PlantFacts facts;
-  core::InputImage low{}, high{};
-  for (auto& d : high.digital) d = true;
-  for (auto& a : low.analog) a.value = -12345.0f;
-  for (auto& a : high.analog) a.value = 12345.0f;
-  plant.read_inputs(low);
-  plant.read_inputs(high);
   facts.plant_digital.resize(machine.digital_input_count);
   facts.plant_analog.resize(machine.analog_input_count);
-  for (std::size_t i = 0; i < facts.plant_digital.size(); ++i) facts.plant_digital[i] = low.digital[i] == high.digital[i];
-  for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = low.analog[i].value == high.analog[i].value;
+  for (std::size_t i = 0; i < facts.plant_digital.size(); ++i) facts.plant_digital[i] = plant.drives_digital_input(i);
+  for (std::size_t i = 0; i < facts.plant_analog.size(); ++i) facts.plant_analog[i] = plant.drives_analog_input(i);
   for (const auto& s : signals) facts.signal_names.push_back(s.name);
   // Valid targets by kind, so a misspelt target is bad input at load time.
   // Sensor faults act on the plant's sensors: only inputs a plant sensor

@@ -367,24 +367,8 @@ class Reader {
         expectation(doc["expect"][k], "/expect/" + std::to_string(k), signals, scenario->expectations);
       }
     }
-    // Times after the end of the run would be silently ignored (checked only
-    // with a valid duration: a bad one is its own error).
-    for (const TimelineEvent& ev : duration ? scenario->events : std::vector<TimelineEvent>{}) {
-      // A pulse's release may fall after the end; anything else there would be silently ignored.
-      const bool pulse_release = ev.kind == TimelineEvent::Kind::kSetDigital && ev.value == 0.0 &&
-                                 ev.json_path.find("/pulse") != std::string::npos;
-      if (static_cast<double>(ev.at_us) * 1e-6 > scenario->duration_s + 1e-9 && !pulse_release)
-        error(ev.json_path, "happens after the end of the run", "Raise duration_s or move the event.");
-    }
-    for (const Expectation& x : duration ? scenario->expectations : std::vector<Expectation>{}) {
-      const bool at_kind = x.kind == Expectation::Kind::kStateAt || x.kind == Expectation::Kind::kSafeWithin;
-      if (at_kind && x.at_s > scenario->duration_s + 1e-9)
-        error(x.json_path + "/at_s", fmt::format("{} s is after the end of the run ({} s)", x.at_s, scenario->duration_s),
-              "Raise duration_s or move the check.");
-      if (x.kind == Expectation::Kind::kStaysWithin && x.from_s > scenario->duration_s + 1e-9)
-        error(x.json_path + "/from_s", fmt::format("{} s is after the end of the run ({} s)", x.from_s, scenario->duration_s),
-              "Raise duration_s or move the window.");
-    }
+    // A bad duration is its own error; times are checked against a good one.
+    if (duration) check_times_before_the_end(*scenario);
     std::stable_sort(scenario->events.begin(), scenario->events.end(),
                      [](const TimelineEvent& a, const TimelineEvent& b) { return a.at_us < b.at_us; });
     return errors_.empty() ? std::move(scenario) : nullptr;
@@ -393,6 +377,28 @@ class Reader {
   std::vector<ScenarioError> take_errors() { return std::move(errors_); }
 
  private:
+  // Events and checks after the end of the run would be silently ignored.
+  void check_times_before_the_end(const Scenario& scenario) {
+    const double end_s = scenario.duration_s + 1e-9;
+    for (const TimelineEvent& ev : scenario.events) {
+      // A pulse's release may fall after the end.
+      const bool pulse_release = ev.kind == TimelineEvent::Kind::kSetDigital && ev.value == 0.0 &&
+                                 ev.json_path.find("/pulse") != std::string::npos;
+      if (static_cast<double>(ev.at_us) * 1e-6 > end_s && !pulse_release)
+        error(ev.json_path, "happens after the end of the run", "Raise duration_s or move the event.");
+    }
+    for (const Expectation& x : scenario.expectations) {
+      const bool at_kind = x.kind == Expectation::Kind::kStateAt || x.kind == Expectation::Kind::kSafeWithin;
+      if (at_kind && x.at_s > end_s)
+        error(x.json_path + "/at_s", fmt::format("{} s is after the end of the run ({} s)", x.at_s, scenario.duration_s),
+              "Raise duration_s or move the check.");
+      if (x.kind == Expectation::Kind::kStaysWithin && x.from_s > end_s)
+        error(x.json_path + "/from_s",
+              fmt::format("{} s is after the end of the run ({} s)", x.from_s, scenario.duration_s),
+              "Raise duration_s or move the window.");
+    }
+  }
+
   std::string file_;
   const core::MachineConfig& machine_;
   const PlantFacts* plant_;

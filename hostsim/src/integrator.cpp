@@ -279,7 +279,11 @@ class OdeintRosenbrock4 final : public Integrator {
 class Ros2 final : public Integrator {
  public:
   Ros2(const Network& net, const StateLayout& layout, const SolverSettings& s)
-      : eval_(net, layout), n_(layout.size), rtol_(relative_tolerances(net, layout, s)), atol_(absolute_tolerances(net, layout, s)), jac_(n_ * n_),
+      : eval_(net, layout),
+        n_(layout.size),
+        rtol_(relative_tolerances(net, layout, s)),
+        atol_(absolute_tolerances(net, layout, s)),
+        jac_(n_ * n_),
         lu_(n_ * n_), piv_(n_), m_(layout.pumped), k1_(n_), k2_(n_), y1_(n_), f_(n_), f0_(n_), ynew_(n_) {}
 
   bool do_advance(const NetworkInputs& in, std::vector<double>& y, double t, double t_end,

@@ -344,6 +344,18 @@ void Plant::read_inputs(core::InputImage& in) const {
   }
 }
 
+bool Plant::drives_digital_input(std::size_t i) const {
+  return std::any_of(wiring_->sensors.begin(), wiring_->sensors.end(), [i](const Wiring::Sensor& s) {
+    return s.input == i && (s.kind == SensorKind::kLimitSwitch || s.kind == SensorKind::kPressureSwitch);
+  });
+}
+
+bool Plant::drives_analog_input(std::size_t i) const {
+  return std::any_of(wiring_->sensors.begin(), wiring_->sensors.end(), [i](const Wiring::Sensor& s) {
+    return s.input == i && (s.kind == SensorKind::kPressure || s.kind == SensorKind::kPosition);
+  });
+}
+
 bool Plant::inject(const PlantFault& fault) {
   Wiring& w = *wiring_;
   switch (fault.kind) {

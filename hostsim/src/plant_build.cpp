@@ -450,14 +450,14 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
   // A valve at a cylinder port, added once every node exists. Positive
   // flow goes from -> to: line -> chamber for the checks, chamber -> line
   // for a counterbalance valve's relief.
-  struct PendingPoc {
+  struct PendingPortValve {
     int from, to, pilot_side;
     std::string name;
     double ratio, crack, span, area;
     std::string path;
     bool counterbalance = false;  // else a pilot-operated check
   };
-  std::vector<PendingPoc> pocs;
+  std::vector<PendingPortValve> port_valves;
   for (std::size_t f = 0; f < nf; ++f) {
     const int ci = cylinder_of[f];
     if (ci < 0) continue;
@@ -605,8 +605,8 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
         if (line_b <= 0.0) r.error(p + "/line_volume_b_cm3", "a load-holding valve needs a line volume on its valve side", "use a positive line volume");
         ports[f].port_b = b.add_node(cyl.name + ".B_line", std::max(line_b, 1e-6));
       }
-      if (poc_a) pocs.push_back({ports[f].port_a, ch_a, ports[f].port_b, cyl.name + ".hold_A", ratio, crack, span, area, pl});
-      if (poc_b) pocs.push_back({ports[f].port_b, ch_b, ports[f].port_a, cyl.name + ".hold_B", ratio, crack, span, area, pl});
+      if (poc_a) port_valves.push_back({ports[f].port_a, ch_a, ports[f].port_b, cyl.name + ".hold_A", ratio, crack, span, area, pl});
+      if (poc_b) port_valves.push_back({ports[f].port_b, ch_b, ports[f].port_a, cyl.name + ".hold_B", ratio, crack, span, area, pl});
     }
     if (cb_a || cb_b) {
       const int port = cb_a ? ports[f].port_a : ports[f].port_b;
@@ -614,18 +614,16 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
       const int pilot = cb_a ? ports[f].port_b : ports[f].port_a;  // the other line (the one that drives)
       const double area = area_for(r.number(*cb, pcb, scb, "rated_flow_l_min") * kLitrePerMin,
                                    r.number(*cb, pcb, scb, "rated_dp_bar") * kBar, b.cd, rho);
-      PendingPoc relief{chamber, port, pilot, cyl.name + ".counterbalance_" + cb_side,
-                        r.number(*cb, pcb, scb, "pilot_ratio"), r.number(*cb, pcb, scb, "setting_bar") * kBar,
-                        r.number(*cb, pcb, scb, "full_open_bar") * kBar, area, pcb};
-      relief.counterbalance = true;
-      pocs.push_back(relief);
+      port_valves.push_back({chamber, port, pilot, cyl.name + ".counterbalance_" + cb_side,
+                             r.number(*cb, pcb, scb, "pilot_ratio"), r.number(*cb, pcb, scb, "setting_bar") * kBar,
+                             r.number(*cb, pcb, scb, "full_open_bar") * kBar, area, pcb, /*counterbalance=*/true});
       // The free-flow check into the chamber: a plain check, fully open 2 bar above cracking.
-      pocs.push_back({port, chamber, -1, cyl.name + ".counterbalance_" + cb_side + "_check", 0.0,
+      port_valves.push_back({port, chamber, -1, cyl.name + ".counterbalance_" + cb_side + "_check", 0.0,
                       r.number(*cb, pcb, scb, "check_cracking_bar") * kBar, 2.0 * kBar, area, pcb});
     }
     b.net.cylinders.push_back(cyl);
   }
-  for (const PendingPoc& q : pocs) {
+  for (const PendingPortValve& q : port_valves) {
     Element e;
     e.kind = q.counterbalance ? ElementKind::kCounterbalance : ElementKind::kCheck;
     e.name = q.name;

@@ -99,6 +99,10 @@ class Plant {
   /// Writes every wired sensor into its input slot (4-20 mA as the input's
   /// signal says; healthy = true and age 0 unless a fault says otherwise).
   void read_inputs(core::InputImage& in) const;
+  /// Whether a plant sensor writes digital input i (a limit or pressure
+  /// switch) or analog input i (a transducer) in read_inputs().
+  bool drives_digital_input(std::size_t i) const;
+  bool drives_analog_input(std::size_t i) const;
   /// Injects a fault from now on. Returns false if the target is unknown.
   [[nodiscard]] bool inject(const PlantFault& fault);
   /// Removes every injected fault.
