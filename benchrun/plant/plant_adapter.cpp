@@ -68,10 +68,30 @@ void PlantAdapter::do_sample(std::vector<double>& values) const {
   values.insert(values.end(), snap.values.begin(), snap.values.end());
 }
 
-void PlantAdapter::do_advance(double dt_s) {
-  if (!plant_.advance(dt_s) && !integrator_error_) {
-    integrator_error_ = fmt::format("the plant integrator's step size collapsed at {:.6f} s", plant_.time_s());
+io::PortStatus PlantAdapter::do_advance(std::uint64_t dt_us) {
+  const double t_s = plant_.time_s();
+  if (!plant_.advance(static_cast<double>(dt_us) * 1e-6)) {
+    return io::PortStatus::failed(io::PortError::kModelFailed,
+                                  fmt::format("at {:.6f} s: the plant integrator's step size collapsed", t_s));
   }
+  for (double y : plant_.state()) {
+    if (std::isfinite(y)) continue;
+    // Name the first signal that went bad, so the user can find the cause
+    // (a load of 1e308 N, a leak that empties a chamber in one step, ...).
+    const hostsim::PlantSnapshot snap = plant_.snapshot();
+    std::string which = "a state variable";
+    for (std::size_t i = 0; i < snap.values.size(); ++i) {
+      if (!std::isfinite(snap.values[i])) {
+        which = "plant." + (*snap.names)[i];
+        break;
+      }
+    }
+    return io::PortStatus::failed(
+        io::PortError::kModelFailed,
+        fmt::format("at {:.6f} s: the plant state is not finite ({} reads {}); the model cannot go on", t_s, which,
+                    "NaN or infinity"));
+  }
+  return io::PortStatus::ok();
 }
 
 std::optional<std::string> PlantAdapter::do_inject(const nlohmann::json& fault) {

@@ -2,6 +2,9 @@
 
 #include <cmath>
 
+#include <fmt/format.h>
+
+#include "spoolstep/io/clock.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
@@ -27,6 +30,138 @@ void set_command(core::OperatorCommands& c, const std::string& name, bool on) {
   else if (name == "pump_stop") c.pump_stop = on;
   else if (name == "stop") c.stop = on;
 }
+
+/// The scenario's timeline over the backend's sensors: at each scan it
+/// applies the events due (inputs the scenario sets, plant faults, late
+/// scans), then lets the sensors write the inputs they drive. The loader
+/// refuses events on inputs a plant sensor drives, so neither overwrites
+/// the other's inputs.
+class TimelineInput final : public io::InputPort {
+ public:
+  TimelineInput(const core::MachineConfig& machine, const Scenario& scenario, const BenchBackend& backend,
+                io::SimulatedClock& clock)
+      : machine_(machine), scenario_(scenario), backend_(backend), clock_(clock) {}
+
+ private:
+  io::PortStatus do_read(core::InputImage& inputs, std::uint64_t scan_time_us) override {
+    if (first_) {
+      first_ = false;
+      // Analog inputs start healthy at the bottom of their range.
+      for (std::uint8_t i = 0; i < machine_.analog_input_count; ++i) {
+        inputs.analog[i].healthy = true;
+        const auto& a = machine_.analog_inputs[i];
+        inputs.analog[i].value = a.signal == core::AnalogSignal::kCurrent4To20 ? to_milliamp(a, a.range_min) : a.range_min;
+      }
+    }
+    while (next_event_ < scenario_.events.size() && scenario_.events[next_event_].at_us <= scan_time_us) {
+      const TimelineEvent& ev = scenario_.events[next_event_++];
+      if (io::PortStatus s = apply(ev, inputs); !s.is_ok()) return s;
+    }
+    if (backend_.sensors != nullptr) return backend_.sensors->read(inputs, scan_time_us);
+    return io::PortStatus::ok();
+  }
+
+  io::PortStatus apply(const TimelineEvent& ev, core::InputImage& inputs) {
+    switch (ev.kind) {
+      case TimelineEvent::Kind::kSetDigital:
+        inputs.digital[ev.index] = ev.value != 0.0;
+        break;
+      case TimelineEvent::Kind::kSetAnalog: {
+        const auto& a = machine_.analog_inputs[ev.index];
+        inputs.analog[ev.index].value =
+            a.signal == core::AnalogSignal::kCurrent4To20 ? to_milliamp(a, ev.value) : static_cast<float>(ev.value);
+        break;
+      }
+      case TimelineEvent::Kind::kSetAnalogMa:
+        inputs.analog[ev.index].value = static_cast<float>(ev.value);
+        break;
+      case TimelineEvent::Kind::kAnalogHealth:
+        inputs.analog[ev.index].healthy = ev.value != 0.0;
+        break;
+      case TimelineEvent::Kind::kCommand:
+        set_command(inputs.commands, ev.command, ev.value != 0.0);
+        break;
+      case TimelineEvent::Kind::kJog:
+        inputs.commands.jog[ev.index] = ev.direction;
+        break;
+      case TimelineEvent::Kind::kPlantFault:
+        if (backend_.faults != nullptr) {
+          if (const auto problem = backend_.faults->inject(ev.plant_fault)) {
+            return io::PortStatus::failed(io::PortError::kScript, ev.json_path + ": " + *problem);
+          }
+        }
+        break;
+      case TimelineEvent::Kind::kDelayScan:
+        // This scan comes late by the delay, and every later one keeps the
+        // same period after it. The plant runs on in machine time.
+        clock_.add_skew(static_cast<std::uint64_t>(ev.value));
+        break;
+    }
+    return io::PortStatus::ok();
+  }
+
+  const core::MachineConfig& machine_;
+  const Scenario& scenario_;
+  const BenchBackend& backend_;
+  io::SimulatedClock& clock_;
+  std::size_t next_event_ = 0;
+  bool first_ = true;
+};
+
+/// Builds one trace row per scan (core signals, then the backend's) and
+/// hands it to every sink.
+class RowRecorder final : public runtime::ScanObserver {
+ public:
+  RowRecorder(const core::MachineConfig& machine, const TraceSource* source, const std::vector<TraceSink*>& sinks,
+              std::size_t width)
+      : machine_(machine), source_(source), sinks_(sinks) {
+    row_.reserve(width);
+  }
+
+ private:
+  void after_scan(const runtime::ScanView& scan) override {
+    if (sinks_.empty()) return;  // a row costs a plant snapshot: only when someone reads it
+    const core::Diagnostics& d = scan.diagnostics;
+    row_.clear();
+    row_.push_back(static_cast<double>(d.state));
+    row_.push_back(static_cast<double>(d.active_step));
+    row_.push_back(static_cast<double>(d.fault_count));
+    row_.push_back(static_cast<double>(d.power_unit));
+    row_.push_back(static_cast<double>(d.completed_cycles));
+    for (std::uint8_t i = 0; i < machine_.digital_input_count; ++i) row_.push_back(scan.inputs.digital[i] ? 1.0 : 0.0);
+    for (std::uint8_t i = 0; i < machine_.analog_input_count; ++i) row_.push_back(static_cast<double>(d.analog_value[i]));
+    for (std::uint8_t i = 0; i < machine_.coil_count; ++i) row_.push_back(scan.outputs.coils[i] ? 1.0 : 0.0);
+    for (std::uint8_t i = 0; i < machine_.prop_output_count; ++i) row_.push_back(static_cast<double>(scan.outputs.prop[i].value));
+    for (std::uint8_t i = 0; i < machine_.function_count; ++i) row_.push_back(static_cast<double>(d.functions[i].command));
+    if (source_ != nullptr) source_->sample(row_);
+    const double t_s = static_cast<double>(scan.scan_time_us) / 1e6;  // the nearest double to the time, so figures print as written
+    for (TraceSink* sink : sinks_) sink->row(t_s, row_);
+  }
+
+  const core::MachineConfig& machine_;
+  const TraceSource* source_;
+  const std::vector<TraceSink*>& sinks_;
+  std::vector<double> row_;
+};
+
+/// Calls the progress callback about every tenth of the run.
+class ProgressReporter final : public runtime::ScanObserver {
+ public:
+  ProgressReporter(std::function<void(double, double)> progress, std::uint64_t end_us, double duration_s)
+      : progress_(std::move(progress)), step_us_(end_us / 10 == 0 ? end_us + 1 : end_us / 10), next_us_(step_us_),
+        duration_s_(duration_s) {}
+
+ private:
+  void after_scan(const runtime::ScanView& scan) override {
+    if (!progress_ || scan.scan_time_us < next_us_) return;
+    progress_(static_cast<double>(scan.scan_time_us) / 1e6, duration_s_);
+    next_us_ += step_us_;
+  }
+  std::function<void(double, double)> progress_;
+  std::uint64_t step_us_;
+  std::uint64_t next_us_;
+  double duration_s_;
+};
 
 }  // namespace
 
@@ -59,123 +194,33 @@ std::vector<Signal> core_signals(const core::MachineConfig& m) {
   return s;
 }
 
-RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scenario, PlantPort* plant,
+RunOutcome run_scenario(const core::MachineConfig& machine, const Scenario& scenario, const BenchBackend& backend,
                         const std::vector<TraceSink*>& sinks, const RunOptions& options) {
-  RunOutcome outcome;
   std::vector<Signal> signals = core_signals(machine);
-  if (plant != nullptr) {
-    const std::vector<Signal> extra = plant->signals();
+  if (backend.trace != nullptr) {
+    const std::vector<Signal> extra = backend.trace->signals();
     signals.insert(signals.end(), extra.begin(), extra.end());
   }
   for (TraceSink* sink : sinks) sink->begin(signals);
 
-  core::Controller controller;
-  const core::Status status = controller.init(machine);
-  if (!status.is_ok()) {
-    outcome.error = std::string("the control core rejects the configuration (") + core::to_string(status.code()) +
-                    " in " + status.where() + " row " + std::to_string(status.index()) + ")";
-    for (TraceSink* sink : sinks) sink->end(0.0);
-    return outcome;
-  }
-  core::InputImage inputs{};
-  core::OutputImage outputs{};
-  for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) {
-    inputs.analog[i].healthy = true;
-    const auto& a = machine.analog_inputs[i];
-    inputs.analog[i].value = a.signal == core::AnalogSignal::kCurrent4To20 ? to_milliamp(a, a.range_min) : a.range_min;
-  }
-
-  const std::uint64_t period_us = machine.safety.scan_period_us == 0 ? 1000 : machine.safety.scan_period_us;
-  const double period_s = static_cast<double>(period_us) * 1e-6;
+  io::SimulatedClock clock;
+  TimelineInput timeline(machine, scenario, backend, clock);
+  io::DiscardingOutputPort nowhere;
+  runtime::ScanLoop loop(timeline, backend.actuators != nullptr ? *backend.actuators : nowhere, clock, backend.model);
+  for (runtime::ScanObserver* o : options.observers) loop.add_observer(*o);
+  RowRecorder rows(machine, backend.trace, sinks, signals.size());
+  loop.add_observer(rows);
   const auto end_us = static_cast<std::uint64_t>(std::llround(scenario.duration_s * 1e6));
-  const std::uint64_t progress_step = end_us / 10 == 0 ? end_us + 1 : end_us / 10;
-  std::uint64_t next_progress = progress_step;
-  std::size_t next_event = 0;
-  std::uint64_t clock_offset_us = 0;  // delay_scan events push every later time stamp back
-  std::uint64_t t_us = 0;
-  std::vector<double> row;
-  row.reserve(signals.size());
+  ProgressReporter progress(options.progress, end_us, scenario.duration_s);
+  loop.add_observer(progress);
 
-  for (; t_us <= end_us; t_us += period_us) {
-    // Scenario events first (a plant fault acts on this scan's sensors), then
-    // the plant's sensors, which the scenario may not script.
-    while (next_event < scenario.events.size() && scenario.events[next_event].at_us <= t_us) {
-      const TimelineEvent& ev = scenario.events[next_event++];
-      switch (ev.kind) {
-        case TimelineEvent::Kind::kSetDigital:
-          inputs.digital[ev.index] = ev.value != 0.0;
-          break;
-        case TimelineEvent::Kind::kSetAnalog: {
-          const auto& a = machine.analog_inputs[ev.index];
-          inputs.analog[ev.index].value = a.signal == core::AnalogSignal::kCurrent4To20
-                                              ? to_milliamp(a, ev.value)
-                                              : static_cast<float>(ev.value);
-          break;
-        }
-        case TimelineEvent::Kind::kSetAnalogMa:
-          inputs.analog[ev.index].value = static_cast<float>(ev.value);
-          break;
-        case TimelineEvent::Kind::kAnalogHealth:
-          inputs.analog[ev.index].healthy = ev.value != 0.0;
-          break;
-        case TimelineEvent::Kind::kCommand:
-          set_command(inputs.commands, ev.command, ev.value != 0.0);
-          break;
-        case TimelineEvent::Kind::kJog:
-          inputs.commands.jog[ev.index] = ev.direction;
-          break;
-        case TimelineEvent::Kind::kPlantFault:
-          if (plant != nullptr) {
-            if (const auto problem = plant->inject(ev.plant_fault)) {
-              outcome.error = ev.json_path + ": " + *problem;
-              for (TraceSink* sink : sinks) sink->end(static_cast<double>(t_us) * 1e-6);
-              return outcome;
-            }
-          }
-          break;
-        case TimelineEvent::Kind::kDelayScan:
-          clock_offset_us += static_cast<std::uint64_t>(ev.value);
-          break;
-      }
-    }
-    if (plant != nullptr) plant->read_inputs(inputs);
-    // A delayed scan: this one comes late by the delay, and every later one
-    // keeps the same period after it. The plant runs on in machine time.
-    const auto now_us = static_cast<std::uint32_t>((t_us + clock_offset_us) & 0xFFFFFFFFu);
-    if (options.before_scan) options.before_scan(inputs, now_us);
-    controller.scan(inputs, now_us, outputs);
-    if (options.after_scan) options.after_scan(outputs, controller.diagnostics());
-    ++outcome.scans;
-
-    const double t_s = static_cast<double>(t_us) / 1e6;  // the nearest double to the time, so figures print as written
-    if (!sinks.empty()) {  // a row costs a plant snapshot: only when someone reads it
-      const core::Diagnostics& d = controller.diagnostics();
-      row.clear();
-      row.push_back(static_cast<double>(d.state));
-      row.push_back(static_cast<double>(d.active_step));
-      row.push_back(static_cast<double>(d.fault_count));
-      row.push_back(static_cast<double>(d.power_unit));
-      row.push_back(static_cast<double>(d.completed_cycles));
-      for (std::uint8_t i = 0; i < machine.digital_input_count; ++i) row.push_back(inputs.digital[i] ? 1.0 : 0.0);
-      for (std::uint8_t i = 0; i < machine.analog_input_count; ++i) row.push_back(static_cast<double>(d.analog_value[i]));
-      for (std::uint8_t i = 0; i < machine.coil_count; ++i) row.push_back(outputs.coils[i] ? 1.0 : 0.0);
-      for (std::uint8_t i = 0; i < machine.prop_output_count; ++i) row.push_back(static_cast<double>(outputs.prop[i].value));
-      for (std::uint8_t i = 0; i < machine.function_count; ++i) row.push_back(static_cast<double>(d.functions[i].command));
-      if (plant != nullptr) plant->sample(row);
-      for (TraceSink* sink : sinks) sink->row(t_s, row);
-    }
-
-    if (plant != nullptr) {
-      plant->apply_outputs(outputs);
-      plant->advance(period_s);
-    }
-    if (options.progress && t_us >= next_progress) {
-      options.progress(t_s, scenario.duration_s);
-      next_progress += progress_step;
-    }
-  }
-  for (TraceSink* sink : sinks) sink->end(scenario.duration_s);
-  outcome.completed = true;
+  const runtime::LoopResult result = loop.run(machine, runtime::LoopSchedule{runtime::scan_period_us(machine), end_us});
+  RunOutcome outcome;
+  outcome.outcome = result.outcome;
+  outcome.error = result.error;
+  outcome.scans = result.scans;
+  const double end_s = result.completed() ? scenario.duration_s : static_cast<double>(result.ended_at_us) * 1e-6;
+  for (TraceSink* sink : sinks) sink->end(end_s);
   return outcome;
 }
 

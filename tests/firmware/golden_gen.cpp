@@ -41,16 +41,15 @@ using namespace spoolstep;
 
 // The plant seen through an analog card with a 10 ms conversion cycle:
 // digital inputs every scan, analog values every tenth scan.
-class SlowAnalogCard final : public benchrun::PlantPort {
+class SlowAnalogCard final : public io::InputPort {
  public:
-  SlowAnalogCard(benchrun::PlantPort& plant, std::size_t analog_count) : plant_(plant), analog_count_(analog_count) {}
+  SlowAnalogCard(io::InputPort& plant, std::size_t analog_count) : plant_(plant), analog_count_(analog_count) {}
 
  private:
   static constexpr std::uint32_t kRefreshScans = 10;
-  std::vector<benchrun::Signal> do_signals() const override { return plant_.signals(); }
-  void do_read_inputs(core::InputImage& inputs) const override {
+  io::PortStatus do_read(core::InputImage& inputs, std::uint64_t scan_time_us) override {
     core::InputImage fresh = inputs;
-    plant_.read_inputs(fresh);
+    io::PortStatus status = plant_.read(fresh, scan_time_us);
     inputs.digital = fresh.digital;
     const bool refresh = scans_ % kRefreshScans == 0;
     // A sample-and-hold card that does not report ages: the held value is
@@ -59,24 +58,21 @@ class SlowAnalogCard final : public benchrun::PlantPort {
       if (refresh) inputs.analog[i] = fresh.analog[i];
     }
     ++scans_;
+    return status;
   }
-  void do_sample(std::vector<double>& values) const override { plant_.sample(values); }
-  void do_apply_outputs(const core::OutputImage& outputs) override { plant_.apply_outputs(outputs); }
-  void do_advance(double dt_s) override { plant_.advance(dt_s); }
-  std::optional<std::string> do_inject(const nlohmann::json& fault) override { return plant_.inject(fault); }
 
-  benchrun::PlantPort& plant_;
+  io::InputPort& plant_;
   std::size_t analog_count_;
-  mutable std::uint32_t scans_ = 0;
+  std::uint32_t scans_ = 0;
 };
 
 // Builds run-length frames of the inputs and the digest of every scan.
-class Recorder {
+class Recorder final : public runtime::ScanObserver {
  public:
   using GoldenFrame = firmware::GoldenFrame;
   Recorder(const core::MachineConfig& config, std::FILE* outputs) : config_(config), outputs_(outputs) {}
 
-  void inputs(const core::InputImage& in, std::uint32_t now_us) {
+  void before_scan(const core::InputImage& in, std::uint32_t now_us) override {
     if (scans_ == 0) start_us_ = now_us - kPeriodUs;  // replay adds the period before each scan
     GoldenFrame frame = firmware::frame_of(in);
     frame.period_us = now_us - last_us_;
@@ -91,7 +87,9 @@ class Recorder {
     last_us_ = now_us;
   }
 
-  void result(const core::OutputImage& out, const core::Diagnostics& diag) {
+  void after_scan(const runtime::ScanView& scan) override {
+    const core::OutputImage& out = scan.outputs;
+    const core::Diagnostics& diag = scan.diagnostics;
     const std::uint32_t digest = firmware::scan_digest(config_, out, diag);
     digests_.push_back(digest);
     total_.u32(digest);
@@ -182,6 +180,8 @@ int main(int argc, char** argv) {
   hostsim::Plant& plant = *std::get<std::unique_ptr<hostsim::Plant>>(built);
   benchrun::PlantAdapter adapter(plant);
   SlowAnalogCard card(adapter, config.analog_input_count);
+  benchrun::BenchBackend backend = adapter.backend();
+  backend.sensors = &card;
   const benchrun::PlantFacts facts = benchrun::plant_facts(plant, config, adapter.signals());
   const auto scenario = benchrun::load_scenario_file(scenario_path, config, &facts);
   if (!scenario.ok()) {
@@ -196,12 +196,10 @@ int main(int argc, char** argv) {
   if (outputs == nullptr) fail(3, "cannot create " + outputs_path.string());
   Recorder rec(config, outputs);
   benchrun::RunOptions options;
-  options.before_scan = [&rec](const core::InputImage& in, std::uint32_t now_us) { rec.inputs(in, now_us); };
-  options.after_scan = [&rec](const core::OutputImage& out, const core::Diagnostics& d) { rec.result(out, d); };
+  options.observers.push_back(&rec);
   benchrun::ExpectationChecker checker(*scenario.scenario, config);
-  const benchrun::RunOutcome outcome = benchrun::run_scenario(config, *scenario.scenario, &card, {&checker}, options);
-  if (!outcome.completed) fail(1, "the bench run stopped early: " + outcome.error);
-  if (adapter.integrator_error()) fail(1, *adapter.integrator_error());
+  const benchrun::RunOutcome outcome = benchrun::run_scenario(config, *scenario.scenario, backend, {&checker}, options);
+  if (!outcome.completed()) fail(1, "the bench run stopped early: " + outcome.error);
   for (const auto& r : checker.results()) {
     if (!r.passed) fail(1, "the golden run no longer does what it must: " + r.name + ": " + r.detail);
   }

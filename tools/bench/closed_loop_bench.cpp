@@ -40,8 +40,11 @@ void BM_ClosedLoop_DemoCycle(benchmark::State& state) {
       return;
     }
     state.ResumeTiming();
-    const benchrun::RunOutcome outcome = benchrun::run_scenario(machine, *scenario.scenario, &adapter, {});
-    benchmark::DoNotOptimize(outcome);
+    const benchrun::RunOutcome outcome = benchrun::run_scenario(machine, *scenario.scenario, adapter.backend(), {});
+    if (!outcome.completed()) {
+      state.SkipWithError(outcome.error.c_str());
+      return;
+    }
     simulated_s += scenario.scenario->duration_s;
     const hostsim::SolverStats& st = (*plant)->solver_stats();
     state.counters["steps"] = static_cast<double>(st.accepted);

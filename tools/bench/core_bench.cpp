@@ -44,12 +44,22 @@ const Recorded& recorded() {
       std::cerr << "cannot load the demo replay timeline\n";
       std::abort();
     }
+    struct InputRecorder final : runtime::ScanObserver {
+      explicit InputRecorder(Recorded& r) : rec(r) {}
+      void before_scan(const core::InputImage& in, std::uint32_t now) override {
+        rec.inputs.push_back(in);
+        rec.times.push_back(now);
+      }
+      void after_scan(const runtime::ScanView&) override {}
+      Recorded& rec;
+    } recorder(rec);
     benchrun::RunOptions options;
-    options.before_scan = [&rec](const core::InputImage& in, std::uint32_t now) {
-      rec.inputs.push_back(in);
-      rec.times.push_back(now);
-    };
-    benchrun::run_scenario(rec.machine->config, *scenario.scenario, nullptr, {}, options);
+    options.observers.push_back(&recorder);
+    const benchrun::RunOutcome outcome = benchrun::run_scenario(rec.machine->config, *scenario.scenario, {}, {}, options);
+    if (!outcome.completed()) {
+      std::cerr << "the demo replay timeline did not run: " << outcome.error << "\n";
+      std::abort();
+    }
     return rec;
   }();
   return r;

@@ -58,8 +58,17 @@ int run_replay(const ReplayOptions& o) {
   const double period_s = static_cast<double>(machine->config.safety.scan_period_us) / 1e6;
   benchrun::FaultLog fault_log(machine->config, period_s);
   benchrun::RunOptions options;
-  options.after_scan = [&fault_log](const core::OutputImage&, const core::Diagnostics& d) { fault_log.observe(d); };
-  const benchrun::RunOutcome outcome = benchrun::run_scenario(machine->config, *scenario, nullptr, sinks, options);
+  options.observers.push_back(&fault_log);
+  const benchrun::RunOutcome outcome = benchrun::run_scenario(machine->config, *scenario, {}, sinks, options);
+  if (!outcome.completed()) {
+    if (!o.trace_path.empty()) {
+      trace.close();
+      std::remove(partial.c_str());
+    }
+    std::cerr << "spoolstep replay: the run ended early " << outcome.error << " (" << runtime::to_string(outcome.outcome)
+              << "); the outputs were set to the safe state; no trace written\n";
+    return kExitInternal;
+  }
   if (!o.trace_path.empty()) {
     trace.close();
     if (!trace || std::rename(partial.c_str(), o.trace_path.c_str()) != 0) {
@@ -67,10 +76,6 @@ int run_replay(const ReplayOptions& o) {
       std::cerr << "spoolstep replay: could not finish writing " << o.trace_path << "\n";
       return kExitInternal;
     }
-  }
-  if (!outcome.completed) {
-    std::cerr << "spoolstep replay: the run stopped early: " << outcome.error << "\n";
-    return kExitFailed;
   }
   std::cout << fmt::format("\n{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
   for (const auto& f : fault_log.entries()) {
@@ -91,7 +96,7 @@ const bool kRegistered = register_command(Command{
           ->required()->check(CLI::ExistingFile);
       sub.add_option("--trace", options->trace_path, "Also write every scan as CSV to this file");
       sub.add_flag("-q,--quiet", options->quiet, "Print only the expectation results");
-      sub.footer("Exit codes: 0 all expectations passed, 1 an expectation failed, 2 bad input, 3 internal error.");
+      sub.footer("Exit codes: 0 all expectations passed, 1 an expectation failed, 2 bad input, 3 an internal error or a write failure.");
       return [options] { return run_replay(*options); };
     },
     "Run the control core alone against a scripted input timeline and print what it does"});

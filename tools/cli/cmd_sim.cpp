@@ -76,9 +76,18 @@ int run_sim(const SimOptions& o) {
   benchrun::PlotCollector plots(scenario->duration_s, period_s);
   benchrun::FaultLog fault_log(machine->config, period_s);
   benchrun::RunOptions options = o.quiet ? benchrun::RunOptions{} : progress_on_stderr("sim");
-  options.after_scan = [&fault_log](const core::OutputImage&, const core::Diagnostics& d) { fault_log.observe(d); };
-  const benchrun::RunOutcome outcome =
-      benchrun::run_scenario(machine->config, *scenario, &adapter, {&csv, &vcd, &checker, &figures, &plots}, options);
+  options.observers.push_back(&fault_log);
+  const benchrun::RunOutcome outcome = benchrun::run_scenario(machine->config, *scenario, adapter.backend(),
+                                                              {&csv, &vcd, &checker, &figures, &plots}, options);
+  if (!outcome.completed()) {
+    // A run the plant (or the loop) could not finish has no results worth
+    // keeping: the staging folder goes away with `out`, --out stays as it was.
+    std::cerr << "spoolstep sim: the run ended early " << outcome.error << " ("
+              << runtime::to_string(outcome.outcome)
+              << "); the outputs were set to the safe state. Nothing was written to " << o.out_dir
+              << "; earlier results, if any, are untouched\n";
+    return kExitInternal;
+  }
 
   benchrun::RunReport report;
   report.machine_path = o.machine_path;
@@ -87,8 +96,7 @@ int run_sim(const SimOptions& o) {
   report.machine = &machine->config;
   report.duration_s = scenario->duration_s;
   report.scans = outcome.scans;
-  report.completed = outcome.completed && !adapter.integrator_error();
-  report.run_error = !outcome.error.empty() ? outcome.error : adapter.integrator_error().value_or("");
+  report.completed = true;
   report.expectations = checker.results();
   report.faults = fault_log.entries();
   report.figures = &figures;
@@ -113,9 +121,7 @@ int run_sim(const SimOptions& o) {
   }
 
   const double simulated_s = outcome.scans == 0 ? 0.0 : static_cast<double>(outcome.scans - 1) * period_s;
-  std::cout << fmt::format("{} scans, {:.3f} s simulated{}\n", outcome.scans, simulated_s,
-                           report.completed ? "" : fmt::format(" of {:.3f} s", scenario->duration_s));
-  if (!report.run_error.empty()) std::cout << "run stopped early: " << report.run_error << "\n";
+  std::cout << fmt::format("{} scans, {:.3f} s simulated\n", outcome.scans, simulated_s);
   std::cout << fmt::format("  {:4}  {:<44} {}\n", "", "expectation", "observed");
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<44} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
@@ -128,7 +134,7 @@ int run_sim(const SimOptions& o) {
     std::cout << fmt::format("  peak {} {:.1f} {} at {:.3f} s\n", p.signal, p.value, p.unit, p.at_s);
   std::cout << "results in " << o.out_dir << "/ (report.html, trace.csv, io.vcd, summary.json)\n";
   std::cout << "Caution: " << benchrun::kSafetyCaution << "\n";
-  const bool passed = report.completed && checker.all_passed();
+  const bool passed = checker.all_passed();
   return passed ? kExitOk : kExitFailed;
 }
 
@@ -142,9 +148,9 @@ const bool kRegistered = register_command(Command{
           ->required()->check(CLI::ExistingFile);
       sub.add_option("--out", options->out_dir, "Output directory (created or replaced whole)")->required();
       sub.add_flag("-q,--quiet", options->quiet, "No progress lines");
-      sub.footer("Exit codes: 0 every expectation passed, 1 an expectation failed or the run stopped early, "
-                 "2 bad input (nothing written), 3 the results could not be written (earlier results are left untouched) "
-                 "or an internal error.");
+      sub.footer("Exit codes: 0 every expectation passed, 1 an expectation failed (the results are written), "
+                 "2 bad input (nothing written), 3 the run could not finish (the plant model failed: "
+                 "nothing written) or the results could not be written (earlier results are left untouched).");
       return [options] { return run_sim(*options); };
     },
     "Run the control core against the hydraulic plant model in closed loop and report"});

@@ -8,6 +8,7 @@
 
 #include "spoolstep/core/config.hpp"
 #include "spoolstep/core/io_image.hpp"
+#include "spoolstep/runtime/scan_loop.hpp"
 
 namespace spoolstep::benchrun {
 
@@ -22,12 +23,13 @@ struct FaultEntry {
 };
 
 /// Collects each fault once, when it first appears (again after a reset).
-class FaultLog {
+class FaultLog final : public runtime::ScanObserver {
  public:
   FaultLog(const core::MachineConfig& machine, double period_s) : machine_(machine), period_s_(period_s) {}
   /// Call after every scan, in order.
   void observe(const core::Diagnostics& diagnostics);
   const std::vector<FaultEntry>& entries() const { return entries_; }
+  void after_scan(const runtime::ScanView& scan) override { observe(scan.diagnostics); }
 
  private:
   const core::MachineConfig& machine_;

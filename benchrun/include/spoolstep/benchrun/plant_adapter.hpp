@@ -1,6 +1,8 @@
 #pragma once
-/// The hydraulic plant model (hostsim) behind the bench loop's PlantPort,
-/// and the facts the scenario loader needs about it.
+/// The hydraulic plant model (hostsim) as a bench backend: an input port
+/// (its sensors), an output port (its valves and pump), a steppable model,
+/// a trace source and a fault target; and the facts the scenario loader
+/// needs about it.
 #include <memory>
 
 #include "spoolstep/benchrun/runner.hpp"
@@ -9,25 +11,36 @@
 
 namespace spoolstep::benchrun {
 
-/// A PlantPort over `plant` (which must outlive it). Its signals are the
-/// plant snapshot's columns, prefixed "plant.".
-class PlantAdapter final : public PlantPort {
+/// The plant behind the loop (`plant` must outlive it). Its trace signals
+/// are the plant snapshot's columns, prefixed "plant.". advance() fails when
+/// the integrator gives up or any state becomes non-finite: a plant in that
+/// state must not feed another scan.
+class PlantAdapter final : public io::InputPort,
+                           public io::OutputPort,
+                           public io::Steppable,
+                           public TraceSource,
+                           public FaultTarget {
  public:
   explicit PlantAdapter(hostsim::Plant& plant);
-  /// Set when the plant's integrator gave up during the run.
-  const std::optional<std::string>& integrator_error() const { return integrator_error_; }
+  /// Every capability of the adapter, as one backend.
+  BenchBackend backend() { return BenchBackend{this, this, this, this, this}; }
 
  private:
+  io::PortStatus do_read(core::InputImage& inputs, std::uint64_t) override {
+    plant_.read_inputs(inputs);
+    return io::PortStatus::ok();
+  }
+  io::PortStatus do_write(const core::OutputImage& outputs, std::uint64_t) override {
+    plant_.apply_outputs(outputs);
+    return io::PortStatus::ok();
+  }
+  io::PortStatus do_advance(std::uint64_t dt_us) override;
   std::vector<Signal> do_signals() const override { return signals_; }
-  void do_read_inputs(core::InputImage& inputs) const override { plant_.read_inputs(inputs); }
   void do_sample(std::vector<double>& values) const override;
-  void do_apply_outputs(const core::OutputImage& outputs) override { plant_.apply_outputs(outputs); }
-  void do_advance(double dt_s) override;
   std::optional<std::string> do_inject(const nlohmann::json& fault) override;
 
   hostsim::Plant& plant_;
   std::vector<Signal> signals_;
-  std::optional<std::string> integrator_error_;
 };
 
 /// What the scenario loader must know about `plant`: which inputs it drives,
