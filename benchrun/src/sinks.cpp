@@ -183,6 +183,13 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
       case Expectation::Kind::kStaysWithin:
         if (t_s + eps >= x.from_s && t_s <= x.to_s + eps) {
           const double y = v[static_cast<std::size_t>(l.column)];
+          // NaN compares false with every limit: a non-finite sample is a
+          // failure of its own, never "within".
+          if (!std::isfinite(y)) {
+            ++l.not_finite;
+            if (!l.failed) { l.failed = true; l.last_value = y; l.fail_time = t_s; }
+            break;
+          }
           if (y < l.observed_min) l.observed_min = y;
           if (y > l.observed_max) { l.observed_max = y; l.first_time = t_s; }
           if ((y < x.min || y > x.max) && !l.failed) { l.failed = true; l.last_value = y; l.fail_time = t_s; }
@@ -197,8 +204,9 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
         if (l.off_since >= 0.0 && (t_s - l.off_since) * 1e3 + eps >= x.grace_ms) {
           l.ever_off = true;
           const double y = std::fabs(v[static_cast<std::size_t>(l.column)]);
-          if (y > l.observed_max) l.observed_max = y;
-          if (y > x.tolerance && !l.failed) { l.failed = true; l.fail_time = t_s; l.last_value = y; }
+          if (!std::isfinite(y)) ++l.not_finite;
+          else if (y > l.observed_max) l.observed_max = y;
+          if ((!std::isfinite(y) || y > x.tolerance) && !l.failed) { l.failed = true; l.fail_time = t_s; l.last_value = y; }
         }
         break;
       case Expectation::Kind::kSafeWithin:
@@ -218,6 +226,7 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
         break;
       case Expectation::Kind::kFinalWithin:
         l.last_value = v[static_cast<std::size_t>(l.column)];
+        if (!std::isfinite(l.last_value)) ++l.not_finite;
         break;
     }
   }
@@ -226,6 +235,14 @@ void ExpectationChecker::row(double t_s, const std::vector<double>& v) {
 void ExpectationChecker::end(double t_end_s) {
   results_.clear();
   t_end_s = last_row_s_ >= 0.0 ? last_row_s_ : t_end_s;  // the time actually simulated
+  // A run that ended before the scenario's end has not shown what the
+  // expectations over the whole run ask: those fail rather than pass on
+  // the part that ran.
+  // (a completed run's last row is less than one period before the end).
+  const double period_s = static_cast<double>(machine_.safety.scan_period_us == 0 ? 1000 : machine_.safety.scan_period_us) * 1e-6;
+  const bool ended_early = t_end_s + period_s <= scenario_.duration_s + 1e-9;
+  const std::string early = fmt::format("the run ended at {:.3f} s, before the scenario's end at {:.3f} s", t_end_s,
+                                        scenario_.duration_s);
   for (std::size_t k = 0; k < live_.size(); ++k) {
     const Expectation& x = scenario_.expectations[k];
     const Live& l = live_[k];
@@ -247,18 +264,30 @@ void ExpectationChecker::end(double t_end_s) {
       case Expectation::Kind::kStaysWithin:
         r.kind = "stays_within";
         r.passed = !l.failed && l.observed_max >= l.observed_min && (x.to_s > 1e299 || x.to_s <= t_end_s + 1e-9);
+        if (x.to_s > 1e299 && ended_early) {
+          r.passed = false;
+          r.detail = early;
+          break;
+        }
         if (x.to_s < 1e299 && x.to_s > t_end_s + 1e-9) {
           r.detail = fmt::format("the run ended at {:.3f} s, before the window's end at {:.3f} s", t_end_s, x.to_s);
           break;
         }
-        r.detail = l.observed_max < l.observed_min ? "no samples in the time window"
+        r.detail = l.observed_max < l.observed_min
+                       ? (l.not_finite > 0 ? fmt::format("{}: every sample in the window was NaN or infinite", x.signal)
+                                           : std::string("no samples in the time window"))
                    : fmt::format("{} ranged {} .. {} (allowed {} .. {}){}", x.signal, number(l.observed_min), number(l.observed_max),
                                  x.min < -1e299 ? "-inf" : number(x.min), x.max > 1e299 ? "inf" : number(x.max),
                                  l.failed ? fmt::format(", first out at {:.3f} s", l.fail_time) : "");
+        if (l.not_finite > 0) r.detail += fmt::format("; {} samples were not finite (NaN or infinity)", l.not_finite);
         break;
       case Expectation::Kind::kStillWhileOff:
         r.kind = "still_while_off";
-        r.passed = !l.failed && l.ever_off;
+        r.passed = !l.failed && l.ever_off && !ended_early;
+        if (ended_early) {
+          r.detail = early;
+          break;
+        }
         if (!l.ever_off) {
           r.detail = fmt::format("{} was never off (past the grace time): nothing was checked",
                                  machine_file::name_view(machine_.digital_inputs[x.input]));
@@ -268,6 +297,7 @@ void ExpectationChecker::end(double t_end_s) {
                                machine_file::name_view(machine_.digital_inputs[x.input]), number(x.grace_ms),
                                l.observed_max < 0 ? "0 (never off)" : number(l.observed_max), number(x.tolerance),
                                l.failed ? fmt::format(", first exceeded at {:.3f} s", l.fail_time) : "");
+        if (l.not_finite > 0) r.detail += fmt::format("; {} samples were not finite (NaN or infinity)", l.not_finite);
         break;
       case Expectation::Kind::kSafeWithin: {
         r.kind = "safe_within";
@@ -289,7 +319,11 @@ void ExpectationChecker::end(double t_end_s) {
       }
       case Expectation::Kind::kFinalWithin:
         r.kind = "final_within";
-        r.passed = l.last_value >= x.min && l.last_value <= x.max;
+        r.passed = std::isfinite(l.last_value) && l.last_value >= x.min && l.last_value <= x.max && !ended_early;
+        if (ended_early) {
+          r.detail = early;
+          break;
+        }
         r.detail = fmt::format("{} = {} at the end (allowed {} .. {})", x.signal, number(l.last_value),
                                x.min < -1e299 ? "-inf" : number(x.min), x.max > 1e299 ? "inf" : number(x.max));
         break;

@@ -77,6 +77,7 @@ class ExpectationChecker final : public TraceSink {
     double safe_since = -1.0;     // safe_within: first all-off sample in time
     double relapse_time = -1.0;   // safe_within: a valve came on again during the hold
     double last_value = 0.0;
+    std::uint64_t not_finite = 0;  // samples that were NaN or infinite (each one a failure)
   };
   const Scenario& scenario_;
   const core::MachineConfig& machine_;
