@@ -110,32 +110,26 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
         !claim(f.enable_coil, coils_owned) || !claim(f.prop_extend, props_owned) ||
         !claim(f.prop_retract, props_owned))
       return Status::error(StatusCode::kOutputShared, "functions", i);
-    bool outputs_ok = true;
-    switch (f.valve) {
-      case ValveKind::kSolenoid43SpringCentred:
-      case ValveKind::kSolenoid42Detented:
-        outputs_ok = f.coil_extend != kNoIndex8 && f.coil_retract != kNoIndex8;
-        break;
-      case ValveKind::kSolenoid42SpringReturn:
-        outputs_ok = f.coil_extend != kNoIndex8 && f.coil_retract == kNoIndex8;
-        break;
-      case ValveKind::kProportional43TwoSolenoid:
-        outputs_ok = f.prop_extend != kNoIndex8 && f.prop_retract != kNoIndex8 &&
-                     c.prop_outputs[f.prop_extend].unit == PropUnit::kMilliamp &&
-                     c.prop_outputs[f.prop_retract].unit == PropUnit::kMilliamp;
-        if (!(f.current_extend.crack_ma >= 0.0f && f.current_extend.crack_ma < f.current_extend.max_ma &&
-              f.current_retract.crack_ma >= 0.0f && f.current_retract.crack_ma < f.current_retract.max_ma))
-          return Status::error(StatusCode::kBadValue, "functions", i);
-        break;
-      case ValveKind::kProportional43SignedCommand:
-        outputs_ok = f.prop_extend != kNoIndex8 && f.prop_retract == kNoIndex8 &&
-                     c.prop_outputs[f.prop_extend].unit == PropUnit::kPercent;
-        if (!(f.deadband_jump_percent >= 0.0f && f.deadband_jump_percent < 100.0f))
-          return Status::error(StatusCode::kBadValue, "functions", i);
-        break;
-      default:
-        return Status::error(StatusCode::kBadValue, "functions", i);
-    }
+    // Exactly the outputs the kind's row names are set (kValveKinds).
+    const ValveKindRow* kind = valve_kind_row(f.valve);
+    if (kind == nullptr) return Status::error(StatusCode::kBadValue, "functions", i);
+    const auto needs = [&](std::uint8_t bits) { return (kind->outputs & bits) != 0; };
+    const bool prop_extend_ma = needs(kDrivesCurrentExtend);
+    const bool prop_signed = needs(kDrivesSignedCommand);
+    bool outputs_ok = (f.coil_extend != kNoIndex8) == needs(kDrivesCoilExtend) &&
+                      (f.coil_retract != kNoIndex8) == needs(kDrivesCoilRetract) &&
+                      (f.prop_extend != kNoIndex8) == (prop_extend_ma || prop_signed) &&
+                      (f.prop_retract != kNoIndex8) == needs(kDrivesCurrentRetract);
+    if (outputs_ok && prop_extend_ma) outputs_ok = c.prop_outputs[f.prop_extend].unit == PropUnit::kMilliamp;
+    if (outputs_ok && prop_signed) outputs_ok = c.prop_outputs[f.prop_extend].unit == PropUnit::kPercent;
+    if (outputs_ok && needs(kDrivesCurrentRetract)) outputs_ok = c.prop_outputs[f.prop_retract].unit == PropUnit::kMilliamp;
+    if (prop_extend_ma && !(f.current_extend.crack_ma >= 0.0f && f.current_extend.crack_ma < f.current_extend.max_ma))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    if (needs(kDrivesCurrentRetract) &&
+        !(f.current_retract.crack_ma >= 0.0f && f.current_retract.crack_ma < f.current_retract.max_ma))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    if (prop_signed && !(f.deadband_jump_percent >= 0.0f && f.deadband_jump_percent < 100.0f))
+      return Status::error(StatusCode::kBadValue, "functions", i);
     if (!outputs_ok) return Status::error(StatusCode::kMissingOutput, "functions", i);
     if (is_proportional(f.valve) && f.ramp_count == 0)
       return Status::error(StatusCode::kBadValue, "functions", i);
@@ -143,12 +137,12 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
       return Status::error(StatusCode::kCapacityExceeded, "functions", i);
     if (!(f.jog_speed_percent >= 0.0f && f.jog_speed_percent <= 100.0f))
       return Status::error(StatusCode::kBadValue, "functions", i);
-    if (f.centre > ValveCentre::kRegenerative || !finite(f.extend_limit) || !finite(f.retract_limit))
+    if (centre_row(f.centre) == nullptr || !finite(f.extend_limit) || !finite(f.retract_limit))
       return Status::error(StatusCode::kBadValue, "functions", i);
     // A proportional valve's quick stop must be a ramp that ends.
     if (is_proportional(f.valve) && (f.quick_stop_us == 0 || f.quick_stop_us > kMaxQuickStopUs))
       return Status::error(StatusCode::kBadValue, "functions", i);
-    if (f.valve == ValveKind::kSolenoid42Detented && f.detent_pulse_us == 0)
+    if (kind->detented && f.detent_pulse_us == 0)
       return Status::error(StatusCode::kBadValue, "functions", i);
     for (std::uint8_t k = 0; k < f.ramp_count; ++k) {
       if (f.ramps[k].profile > RampProfile::kSCurve) return Status::error(StatusCode::kBadValue, "functions", i);

@@ -50,25 +50,19 @@ std::uint8_t MachineBuilder::function(const char* name, core::ValveKind kind, co
   f.valve = kind;
   f.centre = centre;
   const std::string n = name;
-  switch (kind) {
-    case core::ValveKind::kSolenoid43SpringCentred:
-    case core::ValveKind::kSolenoid42Detented:
-      f.coil_extend = coil((n + "_extend").c_str());
-      f.coil_retract = coil((n + "_retract").c_str());
-      break;
-    case core::ValveKind::kSolenoid42SpringReturn:
-      f.coil_extend = coil((n + "_extend").c_str());
-      break;
-    case core::ValveKind::kProportional43TwoSolenoid:
-      f.prop_extend = prop((n + "_extend").c_str(), core::PropUnit::kMilliamp);
-      f.prop_retract = prop((n + "_retract").c_str(), core::PropUnit::kMilliamp);
-      f.current_extend = {200.0f, 800.0f};
-      f.current_retract = {200.0f, 800.0f};
-      break;
-    case core::ValveKind::kProportional43SignedCommand:
-      f.prop_extend = prop((n + "_command").c_str(), core::PropUnit::kPercent);
-      break;
+  // The outputs the kind's row in core::kValveKinds names.
+  const std::uint8_t drives = core::valve_kind_row(kind)->outputs;
+  if (drives & core::kDrivesCoilExtend) f.coil_extend = coil((n + "_extend").c_str());
+  if (drives & core::kDrivesCoilRetract) f.coil_retract = coil((n + "_retract").c_str());
+  if (drives & core::kDrivesCurrentExtend) {
+    f.prop_extend = prop((n + "_extend").c_str(), core::PropUnit::kMilliamp);
+    f.current_extend = {200.0f, 800.0f};
   }
+  if (drives & core::kDrivesCurrentRetract) {
+    f.prop_retract = prop((n + "_retract").c_str(), core::PropUnit::kMilliamp);
+    f.current_retract = {200.0f, 800.0f};
+  }
+  if (drives & core::kDrivesSignedCommand) f.prop_extend = prop((n + "_command").c_str(), core::PropUnit::kPercent);
   return config_.function_count++;
 }
 

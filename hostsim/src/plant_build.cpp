@@ -36,27 +36,13 @@ std::string pointer_token(const std::string& key) {
 }
 
 std::string kind_name(core::ValveKind k) {
-  switch (k) {
-    case core::ValveKind::kSolenoid43SpringCentred: return "4/3 solenoid, spring-centred";
-    case core::ValveKind::kSolenoid42Detented: return "4/2 solenoid, detented";
-    case core::ValveKind::kSolenoid42SpringReturn: return "4/2 solenoid, spring return";
-    case core::ValveKind::kProportional43TwoSolenoid: return "4/3 proportional, two solenoids";
-    case core::ValveKind::kProportional43SignedCommand: return "4/3 proportional, signed command";
-  }
-  return "unknown";
+  const core::ValveKindRow* row = core::valve_kind_row(k);
+  return row != nullptr ? row->text : "unknown";
 }
 
 std::string centre_name(core::ValveCentre c) {
-  switch (c) {
-    case core::ValveCentre::kNotApplicable: return "none";
-    case core::ValveCentre::kClosed: return "closed";
-    case core::ValveCentre::kTandem: return "tandem";
-    case core::ValveCentre::kFloat: return "float";
-    case core::ValveCentre::kOpen: return "open";
-    case core::ValveCentre::kBleed: return "bleed";
-    case core::ValveCentre::kRegenerative: return "regenerative";
-  }
-  return "unknown";
+  const core::CentreRow* row = core::centre_row(c);
+  return row != nullptr ? row->key : "unknown";
 }
 
 // Area that passes `q` at `dp` through one edge by the orifice equation
@@ -663,7 +649,8 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
       continue;
     }
     const core::ValveCentre uc = machine.functions[static_cast<std::size_t>(u)].centre;
-    if (uc != core::ValveCentre::kTandem && uc != core::ValveCentre::kOpen) {
+    const core::CentreRow* upstream = core::centre_row(uc);
+    if (upstream == nullptr || !upstream->p_to_t) {
       r.error(p + "/supply/through_of",
               "the valve of \"" + up + "\" has a " + centre_name(uc) + " centre, which does not pass P on",
               "give the upstream function a tandem or open centre in the machine file, or supply this valve from the pump");
@@ -706,8 +693,8 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
     const std::string s = "valves[]";
     const core::FunctionConfig& fc = machine.functions[f];
     const bool prop = core::is_proportional(fc.valve);
-    const bool four_two = fc.valve == core::ValveKind::kSolenoid42Detented ||
-                          fc.valve == core::ValveKind::kSolenoid42SpringReturn;
+    const core::ValveKindRow* kind_row = core::valve_kind_row(fc.valve);
+    const bool four_two = kind_row == nullptr || !kind_row->has_centre;
     const std::string where = " (machine file: functions \"" + fnames[f] + "\" valve kind " + kind_name(fc.valve) + ")";
     if (prop && v.contains("switch_time_ms")) {
       r.error(p + "/switch_time_ms", "only solenoid valves have a switch time" + where, "use \"response\" instead");
@@ -720,11 +707,13 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
       r.error(p + "/function", "the 4/3 valve of \"" + fnames[f] + "\" has no centre type in the machine file",
               "set the centre in the function's valve object of the machine file");
     }
-    if (v.contains("bleed_orifice_mm2") && centre != core::ValveCentre::kBleed) {
+    const core::CentreRow* centre_facts = core::centre_row(centre);
+    const bool throttled = centre_facts != nullptr && centre_facts->throttled;
+    if (v.contains("bleed_orifice_mm2") && !throttled) {
       r.error(p + "/bleed_orifice_mm2", "only a bleed centre has bleed orifices (this one is " + centre_name(centre) + ")",
               "remove the field or give the function a bleed centre in the machine file");
     }
-    if (centre == core::ValveCentre::kBleed && !v.contains("bleed_orifice_mm2")) {
+    if (throttled && !v.contains("bleed_orifice_mm2")) {
       r.error(p + "/bleed_orifice_mm2", "a bleed centre needs the bleed orifice area", "add \"bleed_orifice_mm2\"");
     }
     if (v.contains("through_line_volume_cm3") && through_node[f] < 0) {
@@ -782,33 +771,14 @@ BuildResult build(const json& plant, const core::MachineConfig& machine, const s
     auto centre_edge = [&](const std::string& name, int from, int to, double area) {
       b.add_element(b.edge(n + ".centre." + name, from, to, spool, EdgeOpening::kCentre, area, 0.0, 0.0, width), p);
     };
-    // Centre flow paths (config.hpp ValveCentre; check-values 4.19).
-    switch (centre) {
-      case core::ValveCentre::kNotApplicable:
-      case core::ValveCentre::kClosed:
-        break;
-      case core::ValveCentre::kTandem:
-        centre_edge(PT == T ? "P-T" : "P-through", P, PT, a_centre);
-        break;
-      case core::ValveCentre::kFloat:
-        centre_edge("A-T", A, T, a_centre);
-        centre_edge("B-T", B, T, a_centre);
-        break;
-      case core::ValveCentre::kOpen:
-        centre_edge(PT == T ? "P-T" : "P-through", P, PT, a_centre);
-        centre_edge("P-A", P, A, a_centre);
-        centre_edge("P-B", P, B, a_centre);
-        break;
-      case core::ValveCentre::kBleed: {
-        const double ab = r.number(v, p, s, "bleed_orifice_mm2") * 1e-6;
-        centre_edge("A-T", A, T, ab);
-        centre_edge("B-T", B, T, ab);
-        break;
-      }
-      case core::ValveCentre::kRegenerative:
-        centre_edge("P-A", P, A, a_centre);
-        centre_edge("P-B", P, B, a_centre);
-        break;
+    // Centre flow paths, from the centre's row in core::kCentres (check-values 4.19).
+    if (const core::CentreRow* c = core::centre_row(centre)) {
+      const double a_vent = c->throttled ? r.number(v, p, s, "bleed_orifice_mm2") * 1e-6 : a_centre;
+      if (c->p_to_t) centre_edge(PT == T ? "P-T" : "P-through", P, PT, a_centre);
+      if (c->p_to_a) centre_edge("P-A", P, A, a_centre);
+      if (c->p_to_b) centre_edge("P-B", P, B, a_centre);
+      if (c->a_to_t) centre_edge("A-T", A, T, a_vent);
+      if (c->b_to_t) centre_edge("B-T", B, T, a_vent);
     }
   }
 

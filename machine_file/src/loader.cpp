@@ -180,27 +180,30 @@ std::optional<RefKind> ref_kind_of(ParamType type) {
   }
 }
 
-// Valve kinds and the valve keys each one takes.
-struct ValveKindInfo {
-  std::string_view key;
-  core::ValveKind kind;
-  bool four_three;  ///< has a centre position
+// The valve keys a kind takes, from its row in core::kValveKinds (in the
+// order the reference documents them).
+std::vector<std::string_view> valve_keys_of(const core::ValveKindRow& row) {
   std::vector<std::string_view> keys;
-};
+  const auto drives = [&](std::uint8_t bits) { return (row.outputs & bits) != 0; };
+  if (row.has_centre) keys.push_back("centre");
+  if (drives(core::kDrivesCoilExtend)) keys.push_back("coil_extend");
+  if (drives(core::kDrivesCoilRetract)) keys.push_back("coil_retract");
+  if (drives(core::kDrivesCurrentExtend)) keys.push_back("channel_extend");
+  if (drives(core::kDrivesCurrentRetract)) keys.push_back("channel_retract");
+  if (drives(core::kDrivesCurrentExtend)) keys.push_back("current_extend_ma");
+  if (drives(core::kDrivesCurrentRetract)) keys.push_back("current_retract_ma");
+  if (drives(core::kDrivesSignedCommand)) keys.push_back("channel");
+  if (drives(core::kDrivesSignedCommand)) keys.push_back("deadband_jump_percent");
+  if (row.meters) keys.push_back("dither");
+  if (row.detented) keys.push_back("detent_pulse_ms");
+  return keys;
+}
 
-const std::vector<ValveKindInfo>& valve_kinds() {
-  static const std::vector<ValveKindInfo> kinds = {
-      {"solenoid_4_3_spring_centred", core::ValveKind::kSolenoid43SpringCentred, true,
-       {"centre", "coil_extend", "coil_retract"}},
-      {"solenoid_4_2_detented", core::ValveKind::kSolenoid42Detented, false,
-       {"coil_extend", "coil_retract", "detent_pulse_ms"}},
-      {"solenoid_4_2_spring_return", core::ValveKind::kSolenoid42SpringReturn, false, {"coil_extend"}},
-      {"proportional_4_3_two_solenoid", core::ValveKind::kProportional43TwoSolenoid, true,
-       {"centre", "channel_extend", "channel_retract", "current_extend_ma", "current_retract_ma", "dither"}},
-      {"proportional_4_3_signed", core::ValveKind::kProportional43SignedCommand, true,
-       {"centre", "channel", "deadband_jump_percent", "dither"}},
-  };
-  return kinds;
+const core::ValveKindRow* valve_kind_named(const std::string& key) {
+  for (const core::ValveKindRow& row : core::kValveKinds) {
+    if (key == row.key) return &row;
+  }
+  return nullptr;
 }
 
 const std::vector<std::string_view> kValveCommonKeys = {"kind", "description", "enable"};
@@ -209,13 +212,12 @@ const std::vector<std::string_view> kValveAllKeys = {
     "channel_retract", "channel", "current_extend_ma", "current_retract_ma", "deadband_jump_percent",
     "dither", "detent_pulse_ms"};
 
+// The parameter table has already refused a name outside core::kCentres.
 core::ValveCentre centre_of(const std::string& text) {
-  if (text == "closed") return core::ValveCentre::kClosed;
-  if (text == "tandem") return core::ValveCentre::kTandem;
-  if (text == "float") return core::ValveCentre::kFloat;
-  if (text == "open") return core::ValveCentre::kOpen;
-  if (text == "bleed") return core::ValveCentre::kBleed;
-  return core::ValveCentre::kRegenerative;
+  for (const core::CentreRow& row : core::kCentres) {
+    if (text == row.key) return row.centre;
+  }
+  return core::ValveCentre::kNotApplicable;
 }
 
 // The keys that select a condition form, in the order they are documented.
@@ -1047,22 +1049,20 @@ void Loader::prepass_names(const json& doc) {
 
 void Loader::load_valve(const json& v, const std::string& path, core::FunctionConfig& fc, const std::string& fname) {
   const auto kind_text = read_string(v, path, "kind");
-  const ValveKindInfo* info = nullptr;
-  for (const auto& k : valve_kinds()) {
-    if (kind_text && k.key == *kind_text) info = &k;
-  }
+  const core::ValveKindRow* info = kind_text ? valve_kind_named(*kind_text) : nullptr;
   if (info == nullptr) {
     check_keys(v, path, kValveAllKeys);
     return;
   }
   fc.valve = info->kind;
-  const bool proportional = core::is_proportional(info->kind);
+  const bool proportional = info->meters;
+  const std::vector<std::string_view> own_keys = valve_keys_of(*info);
   // Fields: common ones, the kind's own, and a clear word for the others.
   std::vector<std::string> known(kValveAllKeys.begin(), kValveAllKeys.end());
   for (const auto& item : v.items()) {
     const std::string& key = item.key();
     const bool common = std::find(kValveCommonKeys.begin(), kValveCommonKeys.end(), key) != kValveCommonKeys.end();
-    const bool own = std::find(info->keys.begin(), info->keys.end(), key) != info->keys.end();
+    const bool own = std::find(own_keys.begin(), own_keys.end(), key) != own_keys.end();
     if (common || own) continue;
     const bool elsewhere = std::find(kValveAllKeys.begin(), kValveAllKeys.end(), key) != kValveAllKeys.end();
     if (!elsewhere) {
@@ -1076,17 +1076,21 @@ void Loader::load_valve(const json& v, const std::string& path, core::FunctionCo
     } else {
       fail(child(path, key), fmt::format("'{}' does not apply to valve kind {}", key, info->key),
            fmt::format("Remove it; a {} valve takes: {}.", info->key,
-                       join(std::vector<std::string>(info->keys.begin(), info->keys.end()), ", ")));
+                       join(std::vector<std::string>(own_keys.begin(), own_keys.end()), ", ")));
     }
   }
   read_string(v, path, "description");
   const std::string owner = fmt::format("function '{}'", fname);
 
-  if (info->four_three) {
+  if (info->has_centre) {
     if (const auto centre = read_string(v, path, "centre")) {
       fc.centre = centre_of(*centre);
     } else if (!v.contains("centre")) {
-      missing(path, "centre", "the flow paths of the 4/3 spool in its centre position (closed, tandem, float, open, bleed or regenerative).");
+      std::string centres;
+      for (std::size_t i = 1; i < core::kCentreCount; ++i) {
+        centres += std::string(i == 1 ? "" : i + 1 == core::kCentreCount ? " or " : ", ") + core::kCentres[i].key;
+      }
+      missing(path, "centre", "the flow paths of the 4/3 spool in its centre position (" + centres + ").");
     }
   } else {
     fc.centre = core::ValveCentre::kNotApplicable;
@@ -1129,34 +1133,24 @@ void Loader::load_valve(const json& v, const std::string& path, core::FunctionCo
     out.max_ma = static_cast<float>(max.value_or(0.0));
   };
 
-  switch (info->kind) {
-    case core::ValveKind::kSolenoid43SpringCentred:
-    case core::ValveKind::kSolenoid42Detented:
-      need("coil_extend", "a coil_extend (P->A)");
-      need("coil_retract", "a coil_retract (P->B)");
-      fc.coil_extend = coil("coil_extend");
-      fc.coil_retract = coil("coil_retract");
-      if (info->kind == core::ValveKind::kSolenoid42Detented) fc.detent_pulse_us = read_ms_as_us(v, path, "detent_pulse_ms");
-      break;
-    case core::ValveKind::kSolenoid42SpringReturn:
-      need("coil_extend", "a coil_extend (P->A)");
-      fc.coil_extend = coil("coil_extend");
-      break;
-    case core::ValveKind::kProportional43TwoSolenoid:
-      need("channel_extend", "a channel_extend (mA, P->A)");
-      need("channel_retract", "a channel_retract (mA, P->B)");
-      need("current_extend_ma", "current_extend_ma {\"crack\": ..., \"max\": ...}");
-      need("current_retract_ma", "current_retract_ma {\"crack\": ..., \"max\": ...}");
-      fc.prop_extend = channel("channel_extend", core::PropUnit::kMilliamp);
-      fc.prop_retract = channel("channel_retract", core::PropUnit::kMilliamp);
-      current("current_extend_ma", fc.current_extend);
-      current("current_retract_ma", fc.current_retract);
-      break;
-    case core::ValveKind::kProportional43SignedCommand:
-      need("channel", "a channel (percent, signed)");
-      fc.prop_extend = channel("channel", core::PropUnit::kPercent);
-      if (const auto jump = read_number(v, path, "deadband_jump_percent")) fc.deadband_jump_percent = static_cast<float>(*jump);
-      break;
+  const auto drives = [&](std::uint8_t bits) { return (info->outputs & bits) != 0; };
+  if (drives(core::kDrivesCoilExtend)) need("coil_extend", "a coil_extend (P->A)");
+  if (drives(core::kDrivesCoilRetract)) need("coil_retract", "a coil_retract (P->B)");
+  if (drives(core::kDrivesCurrentExtend)) need("channel_extend", "a channel_extend (mA, P->A)");
+  if (drives(core::kDrivesCurrentRetract)) need("channel_retract", "a channel_retract (mA, P->B)");
+  if (drives(core::kDrivesCurrentExtend)) need("current_extend_ma", "current_extend_ma {\"crack\": ..., \"max\": ...}");
+  if (drives(core::kDrivesCurrentRetract)) need("current_retract_ma", "current_retract_ma {\"crack\": ..., \"max\": ...}");
+  if (drives(core::kDrivesSignedCommand)) need("channel", "a channel (percent, signed)");
+  if (drives(core::kDrivesCoilExtend)) fc.coil_extend = coil("coil_extend");
+  if (drives(core::kDrivesCoilRetract)) fc.coil_retract = coil("coil_retract");
+  if (info->detented) fc.detent_pulse_us = read_ms_as_us(v, path, "detent_pulse_ms");
+  if (drives(core::kDrivesCurrentExtend)) fc.prop_extend = channel("channel_extend", core::PropUnit::kMilliamp);
+  if (drives(core::kDrivesCurrentRetract)) fc.prop_retract = channel("channel_retract", core::PropUnit::kMilliamp);
+  if (drives(core::kDrivesCurrentExtend)) current("current_extend_ma", fc.current_extend);
+  if (drives(core::kDrivesCurrentRetract)) current("current_retract_ma", fc.current_retract);
+  if (drives(core::kDrivesSignedCommand)) {
+    fc.prop_extend = channel("channel", core::PropUnit::kPercent);
+    if (const auto jump = read_number(v, path, "deadband_jump_percent")) fc.deadband_jump_percent = static_cast<float>(*jump);
   }
   if (proportional) {
     if (const json* d = member(v, path, "dither"); d != nullptr && expect_object(*d, child(path, "dither"))) {
@@ -1184,8 +1178,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
   } else if (expect_object(*v, child(path, "valve"))) {
     load_valve(*v, child(path, "valve"), fc, fname);
     known_kind = v->contains("kind") && v->at("kind").is_string() &&
-                 std::any_of(valve_kinds().begin(), valve_kinds().end(),
-                             [&](const ValveKindInfo& k) { return k.key == v->at("kind").get<std::string>(); });
+                 valve_kind_named(v->at("kind").get<std::string>()) != nullptr;
   }
   const bool proportional = known_kind && core::is_proportional(fc.valve);
   kind_known_[index] = known_kind;

@@ -5,8 +5,31 @@
 
 #include <array>
 
+#include "spoolstep/core/valve_kinds.hpp"
+
 namespace spoolstep::machine_file {
 namespace {
+
+// The choices of the valve kind and the centre are the keys of the core's
+// tables (core/valve_kinds.hpp), joined with '|' at compile time, so the
+// reference and the loader can never list a kind the core does not know.
+template <std::size_t N>
+struct FixedText {
+  std::array<char, N> text{};
+};
+template <std::size_t N, typename Row, std::size_t M>
+constexpr FixedText<N> join_keys(const Row (&rows)[M], std::size_t first) {
+  FixedText<N> out;
+  std::size_t n = 0;
+  for (std::size_t i = first; i < M; ++i) {
+    if (i > first) out.text[n++] = '|';
+    for (const char* c = rows[i].key; *c != '\0'; ++c) out.text[n++] = *c;
+  }
+  out.text[n] = '\0';
+  return out;
+}
+constexpr auto kValveKindChoices = join_keys<256>(core::kValveKinds, 0);
+constexpr auto kCentreChoices = join_keys<128>(core::kCentres, 1);  // "none" (4/2) is never written in a file
 
 using T = ParamType;
 constexpr bool kReq = true;
@@ -125,12 +148,12 @@ constexpr std::array kTable = {
   Parameter{"/functions/*/description", T::kText, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Free text.", ""},
   Parameter{"/functions/*/valve/kind", T::kChoice, "", kReq, "", kNoLimit, kNoLimit,
-            "solenoid_4_3_spring_centred|solenoid_4_2_detented|solenoid_4_2_spring_return|proportional_4_3_two_solenoid|proportional_4_3_signed",
+            kValveKindChoices.text.data(),
             "Directional valve type; decides which outputs and settings the valve needs.", ""},
   Parameter{"/functions/*/valve/description", T::kText, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Free text, e.g. why this centre was chosen.", ""},
   Parameter{"/functions/*/valve/centre", T::kChoice, "", kOpt, "", kNoLimit, kNoLimit,
-            "closed|tandem|float|open|bleed|regenerative",
+            kCentreChoices.text.data(),
             "Flow paths of the 4/3 spool in its centre position; required for 4/3 valves, not allowed on 4/2.", ""},
   Parameter{"/functions/*/valve/coil_extend", T::kCoil, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Solenoid valves: coil that shifts P->A (extend). Required for solenoid kinds.", ""},

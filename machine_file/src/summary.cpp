@@ -18,27 +18,13 @@ std::string ms(std::uint32_t us) { return fmt::format("{:g} ms", static_cast<dou
 std::string name(const core::Name& n) { return std::string(name_view(n)); }
 
 const char* valve_text(core::ValveKind kind) {
-  switch (kind) {
-    case core::ValveKind::kSolenoid43SpringCentred: return "solenoid 4/3 spring-centred";
-    case core::ValveKind::kSolenoid42Detented: return "solenoid 4/2 detented";
-    case core::ValveKind::kSolenoid42SpringReturn: return "solenoid 4/2 spring return";
-    case core::ValveKind::kProportional43TwoSolenoid: return "proportional 4/3 two-solenoid";
-    case core::ValveKind::kProportional43SignedCommand: return "proportional 4/3 signed command";
-  }
-  return "?";
+  const core::ValveKindRow* row = core::valve_kind_row(kind);
+  return row != nullptr ? row->text : "?";
 }
 
 const char* centre_text(core::ValveCentre centre) {
-  switch (centre) {
-    case core::ValveCentre::kNotApplicable: return "no centre (4/2)";
-    case core::ValveCentre::kClosed: return "closed centre";
-    case core::ValveCentre::kTandem: return "tandem centre";
-    case core::ValveCentre::kFloat: return "float centre";
-    case core::ValveCentre::kOpen: return "open centre";
-    case core::ValveCentre::kBleed: return "bleed centre";
-    case core::ValveCentre::kRegenerative: return "regenerative centre";
-  }
-  return "?";
+  const core::CentreRow* row = core::centre_row(centre);
+  return row != nullptr ? row->text : "?";
 }
 
 const char* function_state_text(std::uint16_t state) {

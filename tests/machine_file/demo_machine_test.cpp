@@ -231,7 +231,7 @@ TEST_F(PressCell, SummaryShowsValvesGuardsAndTransitions) {
   ASSERT_TRUE(result_->ok());
   const std::string text = summarize(config());
   for (const char* expected :
-       {"press: proportional 4/3 two-solenoid, bleed centre", "clamp: solenoid 4/3 spring-centred, closed centre",
+       {"press: 4/3 proportional, two solenoids, bleed centre", "clamp: 4/3 solenoid, spring-centred, closed centre",
         "press_ya 300..800 mA", "ramp force: s-curve", "guards press.extend", "healthy when mode manual or two-hand main held",
         "-> dwell when press_pressure > 180 bar (hysteresis 5)", "-> clamp when interlock guard_closed and power unit ready",
         "healthy when not (filter_clogged for 5000 ms)", "0 wait_start (initial)"}) {

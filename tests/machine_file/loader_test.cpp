@@ -273,9 +273,9 @@ TEST(ValveKinds, EveryKindLoadsWithItsOwnOutputsAndSummarizes) {
   EXPECT_EQ(slide.prop_retract, core::kNoIndex8);
   EXPECT_FLOAT_EQ(slide.deadband_jump_percent, 12.0f);
   const std::string text = summarize(c);
-  for (const char* expected : {"door: solenoid 4/2 detented, no centre (4/2)", "detent pulse 150 ms",
-                               "eject: solenoid 4/2 spring return", "spring gives retract",
-                               "slide: proportional 4/3 signed command, float centre", "deadband jump 12 %"}) {
+  for (const char* expected : {"door: 4/2 solenoid, detented, no centre (4/2)", "detent pulse 150 ms",
+                               "eject: 4/2 solenoid, spring return", "spring gives retract",
+                               "slide: 4/3 proportional, signed command, float centre", "deadband jump 12 %"}) {
     EXPECT_NE(text.find(expected), std::string::npos) << expected << "\n" << text;
   }
 }

@@ -114,21 +114,14 @@ std::string spell(Direction v) {
                     "Direction");
 }
 std::string spell(ValveKind v) {
-  return spell_enum(v,
-                    {{ValveKind::kSolenoid43SpringCentred, "kSolenoid43SpringCentred"},
-                     {ValveKind::kSolenoid42Detented, "kSolenoid42Detented"},
-                     {ValveKind::kSolenoid42SpringReturn, "kSolenoid42SpringReturn"},
-                     {ValveKind::kProportional43TwoSolenoid, "kProportional43TwoSolenoid"},
-                     {ValveKind::kProportional43SignedCommand, "kProportional43SignedCommand"}},
-                    "ValveKind");
+  const core::ValveKindRow* row = core::valve_kind_row(v);
+  if (row == nullptr) return fmt::format("static_cast<ValveKind>({})", static_cast<unsigned>(v));
+  return std::string("ValveKind::") + row->symbol;
 }
 std::string spell(ValveCentre v) {
-  return spell_enum(v,
-                    {{ValveCentre::kNotApplicable, "kNotApplicable"}, {ValveCentre::kClosed, "kClosed"},
-                     {ValveCentre::kTandem, "kTandem"}, {ValveCentre::kFloat, "kFloat"},
-                     {ValveCentre::kOpen, "kOpen"}, {ValveCentre::kBleed, "kBleed"},
-                     {ValveCentre::kRegenerative, "kRegenerative"}},
-                    "ValveCentre");
+  const core::CentreRow* row = core::centre_row(v);
+  if (row == nullptr) return fmt::format("static_cast<ValveCentre>({})", static_cast<unsigned>(v));
+  return std::string("ValveCentre::") + row->symbol;
 }
 std::string spell(RampProfile v) {
   return spell_enum(v, {{RampProfile::kLinear, "kLinear"}, {RampProfile::kSCurve, "kSCurve"}}, "RampProfile");

@@ -8,6 +8,7 @@
 #include <cstdint>
 
 #include "spoolstep/core/capacity.hpp"
+#include "spoolstep/core/valve_kinds.hpp"
 
 namespace spoolstep::core {
 
@@ -25,45 +26,6 @@ enum class StopCategory : std::uint8_t {
 };
 
 enum class Direction : std::uint8_t { kNone = 0, kExtend = 1, kRetract = 2 };
-
-/// The valve that drives a function. Port letters follow ISO 1219: the extend
-/// side connects P to A, the retract side P to B.
-enum class ValveKind : std::uint8_t {
-  /// 4/3 double solenoid, spring-centred: off = centre. Shifts fully, cannot ramp.
-  kSolenoid43SpringCentred = 0,
-  /// 4/2 double solenoid, detented: holds its last position when both coils
-  /// are off. The core shifts it with a coil pulse and remembers the side;
-  /// a stop cannot move it back, so the actuator holds (or completes) its stroke.
-  kSolenoid42Detented = 1,
-  /// 4/2 single solenoid, spring return: coil on = extend, off = retract
-  /// position. "Stopped" therefore means the spring position (retract side).
-  kSolenoid42SpringReturn = 2,
-  /// 4/3 proportional with two solenoids, each driven by a current in mA.
-  kProportional43TwoSolenoid = 3,
-  /// 4/3 proportional with one signed command channel in percent (valves
-  /// with on-board electronics): +100 % full extend, -100 % full retract.
-  kProportional43SignedCommand = 4,
-};
-
-/// True for valve kinds whose spool is metered (and so can be ramped).
-constexpr bool is_proportional(ValveKind kind) {
-  return kind == ValveKind::kProportional43TwoSolenoid ||
-         kind == ValveKind::kProportional43SignedCommand;
-}
-
-/// Flow paths of a 4/3 spool in its centre position (common practice, no
-/// source): the core does not meter by it, but the plant model, the checker
-/// and the reports read it from here, the one place it is written.
-enum class ValveCentre : std::uint8_t {
-  kNotApplicable = 0,  ///< 4/2 valves have no centre
-  kClosed,        ///< P, T, A, B all blocked
-  kTandem,        ///< P to T, A and B blocked
-  kFloat,         ///< P blocked, A and B to T
-  kOpen,          ///< P, T, A and B all joined
-  kBleed,         ///< P blocked, A and B bleed to T through small orifices (a throttled float;
-                  ///< catalogues differ on which of float and bleed they call a "motor" spool)
-  kRegenerative,  ///< P, A and B joined, T blocked
-};
 
 enum class RampProfile : std::uint8_t {
   kLinear = 0,
