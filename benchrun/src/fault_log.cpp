@@ -4,6 +4,7 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/core/analog.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
@@ -12,12 +13,14 @@ namespace {
 using machine_file::name_view;
 using core::FaultCode;
 
-const char* analog_reason(std::uint16_t detail) {
+std::string analog_reason(std::uint16_t detail) {
   switch (static_cast<core::AnalogFaultReason>(detail)) {
     case core::AnalogFaultReason::kUnhealthy: return "the I/O layer flags the channel";
     case core::AnalogFaultReason::kStale: return "the sample is older than max_age_ms";
-    case core::AnalogFaultReason::kNe43FailLow: return "NAMUR NE 43 failure current, 3.6 mA or less (wire break?)";
-    case core::AnalogFaultReason::kNe43FailHigh: return "NAMUR NE 43 failure current, 21 mA or more";
+    case core::AnalogFaultReason::kNe43FailLow:
+      return fmt::format("NAMUR NE 43 failure current, {:g} mA or less (wire break?)", core::kNe43FailLowMa);
+    case core::AnalogFaultReason::kNe43FailHigh:
+      return fmt::format("NAMUR NE 43 failure current, {:g} mA or more", core::kNe43FailHighMa);
     case core::AnalogFaultReason::kNotFinite: return "the value is not a finite number";
   }
   return "unknown reason";

@@ -4,6 +4,7 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/core/analog.hpp"
 #include "spoolstep/io/clock.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
@@ -14,10 +15,10 @@ using machine_file::name_view;
 
 std::string str(const core::Name& n) { return std::string(name_view(n)); }
 
-// The loop's view of the machine's analog scaling: engineering value -> mA.
+// A scenario writes engineering values; a 4-20 mA input gets the loop current.
 float to_milliamp(const core::AnalogInputConfig& a, double value) {
-  const double span = static_cast<double>(a.range_max) - static_cast<double>(a.range_min);
-  return static_cast<float>(4.0 + 16.0 * (value - static_cast<double>(a.range_min)) / span);
+  return static_cast<float>(
+      core::loop_from_engineering(value, static_cast<double>(a.range_min), static_cast<double>(a.range_max)));
 }
 
 void set_command(core::OperatorCommands& c, const std::string& name, bool on) {

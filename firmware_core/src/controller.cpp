@@ -8,6 +8,7 @@
 //   6. step chain (one transition per scan at most), power unit
 //   7. per function: demand -> blocking -> reversal dwell -> ramp -> outputs
 //   8. output invariant check (never both solenoids of one valve)
+#include "spoolstep/core/analog.hpp"
 #include "spoolstep/core/controller.hpp"
 
 #include <cmath>
@@ -24,10 +25,6 @@ constexpr std::uint32_t kMaxPlausibleIntervalUs = 0x80000000u;
 // declared stuck and cut to category 0.
 constexpr std::uint32_t kStopMarginUs = 500000;
 
-// NAMUR NE 43 failure bands (check-values.md §2: 3.6 mA and 21 mA [SRC];
-// inclusive bounds from memory of the NE 43 figure).
-constexpr float kNe43FailLowMa = 3.6f;
-constexpr float kNe43FailHighMa = 21.0f;
 
 std::uint32_t saturating_add(std::uint32_t a, std::uint32_t b) {
   return a + b < a ? 0xFFFFFFFFu : a + b;
@@ -179,7 +176,7 @@ void Controller::check_inputs(const InputImage& in, std::uint32_t now_us) {
     }
     diag_.analog_value[i] =
         cfg.signal == AnalogSignal::kCurrent4To20
-            ? cfg.range_min + (sample.value - 4.0f) / 16.0f * (cfg.range_max - cfg.range_min)
+            ? engineering_from_loop(sample.value, cfg.range_min, cfg.range_max)
             : sample.value;
     if (bad) {
       raise_fault(FaultCode::kAnalogInputFault, i, static_cast<std::uint16_t>(reason), category,

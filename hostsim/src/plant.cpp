@@ -1,3 +1,4 @@
+#include "spoolstep/core/analog.hpp"
 #include "spoolstep/hostsim/plant.hpp"
 
 #include <algorithm>
@@ -12,13 +13,13 @@ namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// NAMUR NE 43 signal levels (check-values section 2, [SRC] g-sensor.net,
-// industryhub.site): valid measurement 3.8 .. 20.5 mA (saturation limits),
-// failure <= 3.6 mA (low) or >= 21 mA (high).
-constexpr double kNe43SaturationLowMa = 3.8;
-constexpr double kNe43SaturationHighMa = 20.5;
-constexpr double kNe43FailLowMa = 3.6;
-constexpr double kNe43FailHighMa = 21.0;
+// NAMUR NE 43 signal levels (core/analog.hpp; check-values section 2, [SRC]
+// g-sensor.net, industryhub.site): valid measurement 3.8 .. 20.5 mA
+// (saturation limits), failure <= 3.6 mA (low) or >= 21 mA (high).
+constexpr double kNe43SaturationLowMa = core::kNe43SaturationLowMa;
+constexpr double kNe43SaturationHighMa = core::kNe43SaturationHighMa;
+constexpr double kNe43FailLowMa = core::kNe43FailLowMa;
+constexpr double kNe43FailHighMa = core::kNe43FailHighMa;
 // An open current loop carries no current at all (physics; below 3.6 mA, so
 // a NE 43 receiver reads it as a low failure).
 constexpr double kOpenLoopMa = 0.0;
@@ -326,7 +327,7 @@ void Plant::read_inputs(core::InputImage& in) const {
     sample.healthy = true;
     sample.age_us = 0;
     if (s.current_loop) {
-      double ma = 4.0 + 16.0 * (eng - s.range_min) / (s.range_max - s.range_min);
+      double ma = core::loop_from_engineering(eng, s.range_min, s.range_max);
       ma = std::clamp(ma, kNe43SaturationLowMa, kNe43SaturationHighMa);
       if (s.fault == SensorFault::kWireBreak) ma = kOpenLoopMa;
       if (s.fault == SensorFault::kFailLow) ma = kNe43FailLowMa;
