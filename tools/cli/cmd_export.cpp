@@ -27,6 +27,7 @@
 #include <fmt/format.h>
 
 #include "command_registry.hpp"
+#include "spoolstep/core/config_fields.hpp"
 #include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
@@ -35,25 +36,9 @@ namespace {
 
 using namespace spoolstep::core;
 
-// The emitter below writes every field of these structs. When a struct
-// changes size, a field was added or removed: update the emitter (and the
-// field-by-field comparison in tests/firmware/config_compare.hpp), then the
-// sizes here. Sizes are those of the host ABI (x86-64 / AArch64 Linux).
-static_assert(sizeof(Name) == 24, "Name changed: update cmd_export.cpp");
-static_assert(sizeof(RampConfig) == 48, "RampConfig changed: update cmd_export.cpp");
-static_assert(sizeof(FunctionConfig) == 288, "FunctionConfig changed: update cmd_export.cpp");
-static_assert(sizeof(ConditionNode) == 44, "ConditionNode changed: update cmd_export.cpp");
-static_assert(sizeof(InterlockConfig) == 32, "InterlockConfig changed: update cmd_export.cpp");
-static_assert(sizeof(TwoHandConfig) == 32, "TwoHandConfig changed: update cmd_export.cpp");
-static_assert(sizeof(AnalogInputConfig) == 64, "AnalogInputConfig changed: update cmd_export.cpp");
-static_assert(sizeof(PropOutputConfig) == 25, "PropOutputConfig changed: update cmd_export.cpp");
-static_assert(sizeof(PowerUnitConfig) == 20, "PowerUnitConfig changed: update cmd_export.cpp");
-static_assert(sizeof(OperatorConfig) == 14, "OperatorConfig changed: update cmd_export.cpp");
-static_assert(sizeof(StepAction) == 12, "StepAction changed: update cmd_export.cpp");
-static_assert(sizeof(StepConfig) == 84, "StepConfig changed: update cmd_export.cpp");
-static_assert(sizeof(TransitionConfig) == 4, "TransitionConfig changed: update cmd_export.cpp");
-static_assert(sizeof(SafetyConfig) == 16, "SafetyConfig changed: update cmd_export.cpp");
-static_assert(sizeof(MachineConfig) == 18864, "MachineConfig changed: update cmd_export.cpp");
+// Every field of every struct is written by walking its field list in
+// core/config_fields.hpp, which the build checks against the struct itself:
+// a field cannot be dropped from the firmware image.
 
 // ---- value spelling -------------------------------------------------------
 
@@ -179,112 +164,39 @@ class Emitter {
   }
 };
 
-void walk(Emitter& e, const std::string& p, const RampConfig& r) {
-  e.field(p + ".name", r.name);
-  e.field(p + ".profile", r.profile);
-  e.field(p + ".extend_accel_us", r.extend_accel_us);
-  e.field(p + ".extend_decel_us", r.extend_decel_us);
-  e.field(p + ".retract_accel_us", r.retract_accel_us);
-  e.field(p + ".retract_decel_us", r.retract_decel_us);
-  e.field(p + ".jerk_us", r.jerk_us);
-}
+template <typename T>
+struct is_std_array : std::false_type {};
+template <typename T, std::size_t N>
+struct is_std_array<std::array<T, N>> : std::true_type {};
 
-void walk(Emitter& e, const std::string& p, const Name& n) { e.field(p, n); }
-
-void walk(Emitter& e, const std::string& p, const AnalogInputConfig& a) {
-  e.field(p + ".name", a.name);
-  e.field(p + ".unit", a.unit);
-  e.field(p + ".signal", a.signal);
-  e.field(p + ".range_min", a.range_min);
-  e.field(p + ".range_max", a.range_max);
-  e.field(p + ".max_age_us", a.max_age_us);
-}
-
-void walk(Emitter& e, const std::string& p, const PropOutputConfig& o) {
-  e.field(p + ".name", o.name);
-  e.field(p + ".unit", o.unit);
-}
+std::string join_path(const std::string& p, const char* name) { return p.empty() ? std::string(name) : p + "." + name; }
 
 template <typename T, std::size_t N>
 void walk_table(Emitter& e, const std::string& p, const std::array<T, N>& table);
 
-void walk(Emitter& e, const std::string& p, const FunctionConfig& f) {
-  e.field(p + ".name", f.name);
-  e.field(p + ".valve", f.valve);
-  e.field(p + ".centre", f.centre);
-  e.field(p + ".coil_extend", f.coil_extend);
-  e.field(p + ".coil_retract", f.coil_retract);
-  e.field(p + ".prop_extend", f.prop_extend);
-  e.field(p + ".prop_retract", f.prop_retract);
-  e.field(p + ".enable_coil", f.enable_coil);
-  e.field(p + ".current_extend.crack_ma", f.current_extend.crack_ma);
-  e.field(p + ".current_extend.max_ma", f.current_extend.max_ma);
-  e.field(p + ".current_retract.crack_ma", f.current_retract.crack_ma);
-  e.field(p + ".current_retract.max_ma", f.current_retract.max_ma);
-  e.field(p + ".deadband_jump_percent", f.deadband_jump_percent);
-  e.field(p + ".dither_amplitude_ma", f.dither_amplitude_ma);
-  e.field(p + ".dither_frequency_hz", f.dither_frequency_hz);
-  e.field(p + ".extended_end_input", f.extended_end_input);
-  e.field(p + ".retracted_end_input", f.retracted_end_input);
-  e.field(p + ".position_input", f.position_input);
-  e.field(p + ".extend_limit", f.extend_limit);
-  e.field(p + ".retract_limit", f.retract_limit);
-  e.field(p + ".reversal_dwell_us", f.reversal_dwell_us);
-  e.field(p + ".detent_pulse_us", f.detent_pulse_us);
-  e.field(p + ".quick_stop_us", f.quick_stop_us);
-  e.field(p + ".jog_speed_percent", f.jog_speed_percent);
-  e.field(p + ".jog_extend", f.jog_extend);
-  e.field(p + ".jog_retract", f.jog_retract);
-  walk_table(e, p + ".ramps", f.ramps);
-  e.field(p + ".ramp_count", f.ramp_count);
-}
-
-void walk(Emitter& e, const std::string& p, const ConditionNode& n) {
-  e.field(p + ".op", n.op);
-  e.field(p + ".a", n.a);
-  e.field(p + ".b", n.b);
-  e.field(p + ".threshold", n.threshold);
-  e.field(p + ".hysteresis", n.hysteresis);
-  e.field(p + ".time_us", n.time_us);
-  e.field(p + ".label", n.label);
-}
-
-void walk(Emitter& e, const std::string& p, std::uint16_t v) { e.field(p, v); }
-
-void walk(Emitter& e, const std::string& p, const InterlockConfig& il) {
-  e.field(p + ".name", il.name);
-  e.field(p + ".kind", il.kind);
-  e.field(p + ".stop_category", il.stop_category);
-  e.field(p + ".condition", il.condition);
-  e.field(p + ".guards", fmt::format("0x{:08x}u", il.guards));
-}
-
-void walk(Emitter& e, const std::string& p, const TwoHandConfig& t) {
-  e.field(p + ".name", t.name);
-  e.field(p + ".left_input", t.left_input);
-  e.field(p + ".right_input", t.right_input);
-  e.field(p + ".max_sync_us", t.max_sync_us);
-}
-
-void walk(Emitter& e, const std::string& p, const StepAction& a) {
-  e.field(p + ".function", a.function);
-  e.field(p + ".direction", a.direction);
-  e.field(p + ".speed_percent", a.speed_percent);
-  e.field(p + ".ramp", a.ramp);
-}
-
-void walk(Emitter& e, const std::string& p, const StepConfig& s) {
-  e.field(p + ".name", s.name);
-  walk_table(e, p + ".actions", s.actions);
-  e.field(p + ".action_count", s.action_count);
-  e.field(p + ".min_time_us", s.min_time_us);
-  e.field(p + ".supervision_us", s.supervision_us);
-}
-
-void walk(Emitter& e, const std::string& p, const TransitionConfig& t) {
-  e.field(p + ".from_step", t.from_step);
-  e.field(p + ".to_step", t.to_step);
-  e.field(p + ".condition", t.condition);
+/// Writes `value` at `p`: a leaf as one line, a struct field by field from
+/// its list in core/config_fields.hpp, a table row by row.
+template <typename T>
+void walk(Emitter& e, const std::string& p, const T& value) {
+  if constexpr (is_std_array<T>::value) {
+    walk_table(e, p, value);
+  } else if constexpr (std::is_same_v<T, Name> || !fields::has_fields<T>::value) {
+    e.field(p, value);
+  } else {
+    fields::each(
+        [&](const char* name, auto member) {
+          const auto& field = value.*member;
+          if constexpr (std::is_same_v<std::decay_t<decltype(field)>, std::uint32_t>) {
+            // Guard masks read best in hex: one bit per motion.
+            if (std::string_view(name) == "guards") {
+              e.field(join_path(p, name), fmt::format("0x{:08x}u", field));
+              return;
+            }
+          }
+          walk(e, join_path(p, name), field);
+        },
+        fields::Of<T>{});
+  }
 }
 
 template <typename T, std::size_t N>
@@ -301,52 +213,7 @@ void walk_table(Emitter& e, const std::string& p, const std::array<T, N>& table)
 
 std::string emit_body(const MachineConfig& c) {
   Emitter e;
-  e.field("name", c.name);
-  e.field("safety.scan_period_us", c.safety.scan_period_us);
-  e.field("safety.watchdog_us", c.safety.watchdog_us);
-  e.field("safety.max_digital_age_us", c.safety.max_digital_age_us);
-  e.field("safety.input_fault_category", c.safety.input_fault_category);
-  e.field("safety.supervision_category", c.safety.supervision_category);
-  walk_table(e, "digital_inputs", c.digital_inputs);
-  e.field("digital_input_count", c.digital_input_count);
-  walk_table(e, "analog_inputs", c.analog_inputs);
-  e.field("analog_input_count", c.analog_input_count);
-  walk_table(e, "coils", c.coils);
-  e.field("coil_count", c.coil_count);
-  walk_table(e, "prop_outputs", c.prop_outputs);
-  e.field("prop_output_count", c.prop_output_count);
-  walk_table(e, "functions", c.functions);
-  e.field("function_count", c.function_count);
-  const PowerUnitConfig& pu = c.power_unit;
-  e.field("power_unit.present", pu.present);
-  e.field("power_unit.motor_coil", pu.motor_coil);
-  e.field("power_unit.dump_coil", pu.dump_coil);
-  e.field("power_unit.unloaded_start_us", pu.unloaded_start_us);
-  e.field("power_unit.pressure_ready", pu.pressure_ready);
-  e.field("power_unit.pressure_ready_timeout_us", pu.pressure_ready_timeout_us);
-  e.field("power_unit.start", pu.start);
-  e.field("power_unit.stop", pu.stop);
-  const OperatorConfig& op = c.operator_panel;
-  e.field("operator_panel.estop_input", op.estop_input);
-  e.field("operator_panel.estop_category", op.estop_category);
-  e.field("operator_panel.reset", op.reset);
-  e.field("operator_panel.cycle_start", op.cycle_start);
-  e.field("operator_panel.cycle_stop", op.cycle_stop);
-  e.field("operator_panel.auto_mode", op.auto_mode);
-  e.field("operator_panel.continuous", op.continuous);
-  e.field("operator_panel.stop", op.stop);
-  walk_table(e, "two_hand", c.two_hand);
-  e.field("two_hand_count", c.two_hand_count);
-  walk_table(e, "nodes", c.nodes);
-  e.field("node_count", c.node_count);
-  walk_table(e, "child_slots", c.child_slots);
-  e.field("child_slot_count", c.child_slot_count);
-  walk_table(e, "interlocks", c.interlocks);
-  e.field("interlock_count", c.interlock_count);
-  walk_table(e, "steps", c.steps);
-  e.field("step_count", c.step_count);
-  walk_table(e, "transitions", c.transitions);
-  e.field("transition_count", c.transition_count);
+  walk(e, "", c);
   return e.text;
 }
 
