@@ -456,7 +456,7 @@ TEST(Determinism, SameInputsSameOutputsBitForBit) {
 TEST(Config, InvalidConfigurationHoldsEverythingOff) {
   MachineConfig c = make_test_machine();
   c.functions[kPress].prop_retract = kPressYa;  // one channel, two owners
-  Rig rig(c);
+  Rig rig(c, 0, Rig::Expect::kInvalid);
   EXPECT_FALSE(rig.init_status_ok);
   rig.in.digital[kReset] = true;
   for (int i = 0; i < 20; ++i) EXPECT_TRUE(all_outputs_off(rig.scan()));
