@@ -44,6 +44,37 @@ float current_for(const SolenoidCurrent& range, float fraction) {
 
 }  // namespace
 
+std::uint8_t two_hand_devices_read_by(const MachineConfig& c, std::uint16_t condition) {
+  if (condition == kNoCondition || condition >= c.node_count) return 0;
+  // Nodes read only lower indices, so one pass in index order collects the
+  // devices every node depends on.
+  std::array<std::uint8_t, kMaxConditionNodes> devices{};
+  for (std::uint16_t i = 0; i <= condition; ++i) {
+    const ConditionNode& n = c.nodes[i];
+    switch (n.op) {
+      case ConditionOp::kTwoHandHeld:
+        devices[i] = static_cast<std::uint8_t>(1u << n.a);
+        break;
+      case ConditionOp::kNodeRef:
+      case ConditionOp::kNot:
+      case ConditionOp::kOnDelay:
+      case ConditionOp::kOffDelay:
+      case ConditionOp::kDebounce:
+        devices[i] = devices[n.a];
+        break;
+      case ConditionOp::kAll:
+      case ConditionOp::kAny:
+        for (std::uint16_t k = 0; k < n.b; ++k) {
+          devices[i] = static_cast<std::uint8_t>(devices[i] | devices[c.child_slots[n.a + k]]);
+        }
+        break;
+      default:
+        break;
+    }
+  }
+  return devices[condition];
+}
+
 Status Controller::init(const MachineConfig& config) {
   config_ = &config;
   const Status status = validate_config(config);
@@ -57,6 +88,8 @@ Status Controller::init(const MachineConfig& config) {
   for (TwoHandStep& t : two_hand_) t.phase = TwoHandPhase::kBlocked;
   functions_ = {};
   prev_reset_ = prev_cycle_start_ = prev_pump_start_ = false;
+  cycle_start_devices_ = 0;
+  holding_devices_ = 0;
   blocked_motions_ = immediate_motions_ = 0;
   pump_elapsed_us_ = 0;
   supervision_raised_ = false;
@@ -71,6 +104,7 @@ Status Controller::init(const MachineConfig& config) {
   diag_ = Diagnostics{};
   if (config_ok_) {
     compute_reach();
+    cycle_start_devices_ = two_hand_devices_read_by(config, config.operator_panel.cycle_start);
     for (std::uint8_t i = 0; i < config.function_count; ++i) {
       const FunctionConfig& f = config.functions[i];
       if (is_proportional(f.valve) && f.quick_stop_us + kStopMarginUs > stop_limit_us_) {
@@ -199,7 +233,12 @@ void Controller::update_two_hand(const InputImage& in, std::uint32_t dt_us, std:
     two_hand_[i] = advance_two_hand(two_hand_[i], in.digital[t.left_input],
                                     in.digital[t.right_input], dt_us, t.max_sync_us, late);
     if (late) log(now_us, EventCode::kTwoHandBlocked, i, 0);
-    diag_.two_hand_held[i] = two_hand_[i].phase == TwoHandPhase::kHeld;
+    const bool held = two_hand_[i].phase == TwoHandPhase::kHeld;
+    if (diag_.two_hand_held[i] && !held && ((holding_devices_ >> i) & 1u) != 0 &&
+        chain_running(diag_.state)) {
+      log(now_us, EventCode::kTwoHandReleased, i, 0);
+    }
+    diag_.two_hand_held[i] = held;
   }
 }
 
@@ -365,6 +404,15 @@ void Controller::update_interlocks(std::uint32_t now_us) {
       if ((previous_ok & bit) && !first_scan_) log(now_us, EventCode::kPermissiveLost, i, 0);
     }
   }
+  // A two-hand device that started the running cycle acts as a permissive
+  // over its release_holds motions: ISO 13851 type III, continuous actuation
+  // for the hazardous phase (from memory). Releasing either hand holds the
+  // cycle; only a new two-hand actuation (a new cycle start) resumes it.
+  for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
+    if (((holding_devices_ >> i) & 1u) != 0 && !diag_.two_hand_held[i]) {
+      blocked_motions_ |= c.two_hand[i].release_holds;
+    }
+  }
 }
 
 void Controller::apply_event(MachineEvent event, std::uint32_t now_us) {
@@ -398,6 +446,14 @@ bool Controller::initial_step_can_start() const {
   return false;
 }
 
+std::uint16_t Controller::initial_step_unmet() const {
+  const MachineConfig& c = *config_;
+  for (std::uint8_t t = 0; t < c.transition_count; ++t) {
+    if (c.transitions[t].from_step == 0) return first_unmet(c.transitions[t].condition);
+  }
+  return kNoCondition;
+}
+
 void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us) {
   const MachineConfig& c = *config_;
   const OperatorCommands& cmd = in.commands;
@@ -429,20 +485,34 @@ void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us
   if (operator_stop_) apply_event(MachineEvent::kStopRequest, now_us);
   if (cycle_start) {
     if (operator_stop_) {
-      log(now_us, EventCode::kStartRefused, 1, 0);  // the stop overrides every start
+      // The stop overrides every start.
+      log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kStopPressed), 0);
     } else if (diag_.state == MachineState::kAutoIdle && !initial_step_can_start()) {
       // A start the machine cannot act on now is refused, not stored: it
       // would otherwise fire by itself when the conditions come true later.
-      log(now_us, EventCode::kStartRefused, 0, 0);
+      log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kNotReady),
+          initial_step_unmet());
     } else {
+      const MachineState before = diag_.state;
       apply_event(MachineEvent::kCycleStart, now_us);
+      if (diag_.state != before) {
+        // The devices held at this start hold the cycle when released.
+        std::uint8_t held = 0;
+        for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
+          if (diag_.two_hand_held[i]) held = static_cast<std::uint8_t>(held | (1u << i));
+        }
+        holding_devices_ = static_cast<std::uint8_t>(held & cycle_start_devices_);
+      }
     }
   }
   if (cycle_stop && (chain_running(diag_.state) || diag_.state == MachineState::kAutoHeld)) {
     end_cycle_requested_ = true;
   }
   if (end_cycle_requested_) apply_event(MachineEvent::kCycleStop, now_us);
-  if (!chain_running(diag_.state) && diag_.state != MachineState::kAutoHeld) end_cycle_requested_ = false;
+  if (!chain_running(diag_.state) && diag_.state != MachineState::kAutoHeld) {
+    end_cycle_requested_ = false;
+    holding_devices_ = 0;
+  }
   // A permissive that guards any motion the chain may still demand in this
   // cycle holds it, whatever the present step moves: closing a guard must
   // never let the cycle go on by itself.
@@ -477,7 +547,8 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
   if (active == 0) {
     // A cycle (or a continuous repeat) whose start conditions do not hold
     // ends here instead of waiting to start by itself later.
-    log(now_us, EventCode::kStartRefused, 0, 0);
+    log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kRepeatNotReady),
+        initial_step_unmet());
     apply_event(MachineEvent::kCycleComplete, now_us);
     return;
   }

@@ -207,6 +207,7 @@ Status validate_config(const MachineConfig& c) {
     const TwoHandConfig& t = c.two_hand[i];
     if (t.left_input >= c.digital_input_count || t.right_input >= c.digital_input_count)
       return Status::error(StatusCode::kIndexOutOfRange, "two_hand", i);
+    if ((t.release_holds & ~kAllMotionBits) != 0) return Status::error(StatusCode::kBadValue, "two_hand", i);
   }
   const std::uint32_t all_guards = ((std::uint32_t{1} << (c.function_count * 2u)) - 1u) | kPowerUnitGuardBit;
   for (std::uint8_t i = 0; i < c.interlock_count; ++i) {

@@ -505,6 +505,8 @@ class Loader {
   void load_interlocks(const json& doc);
   void load_sequence(const json& doc);
   std::uint32_t read_guards(const json& obj, const std::string& path);
+  std::uint32_t read_motion_list(const json& list, const std::string& path, bool pump_allowed);
+  void load_two_hand_holds(const json& doc);
 
   std::string file_;
   core::MachineConfig& cfg_;
@@ -976,7 +978,7 @@ void Loader::load_two_hand(const json& doc) {
     const json& item = (*list)[i];
     if (!expect_object(item, p)) continue;
     auto& th = cfg_.two_hand[i];
-    check_keys(item, p, {"name", "description", "left", "right", "max_sync_ms"});
+    check_keys(item, p, {"name", "description", "left", "right", "max_sync_ms", "release_holds"});
     read_string(item, p, "description");
     const std::string name = read_name(item, p);
     set_name(th.name, name);
@@ -1298,12 +1300,16 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     fail(gp, "an interlock must guard something", "List the motions it stops, e.g. [\"press.extend\"], or \"all\".");
     return 0;
   }
+  return read_motion_list(*list, gp, true);
+}
+
+std::uint32_t Loader::read_motion_list(const json& list, const std::string& gp, bool pump_allowed) {
   std::uint32_t mask = 0;
-  for (std::size_t i = 0; i < list->size(); ++i) {
-    const json& g = (*list)[i];
+  for (std::size_t i = 0; i < list.size(); ++i) {
+    const json& g = list[i];
     const std::string p = child(gp, i);
     if (!g.is_string()) {
-      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the guard in double quotes.");
+      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the motion in double quotes.");
       continue;
     }
     const std::string text = g.get<std::string>();
@@ -1311,14 +1317,16 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
       for (std::uint8_t f = 0; f < cfg_.function_count; ++f) {
         mask |= core::motion_bit(f, core::Direction::kExtend) | core::motion_bit(f, core::Direction::kRetract);
       }
-      if (cfg_.power_unit.present) mask |= core::kPowerUnitGuardBit;
+      if (pump_allowed && cfg_.power_unit.present) mask |= core::kPowerUnitGuardBit;
       continue;
     }
     if (text == "pump") {
-      if (!cfg_.power_unit.present) {
+      if (!pump_allowed) {
+        fail(p, "'pump' is not a motion here", "List motions only: 'f.extend', 'f.retract', 'f' or 'all'.");
+      } else if (!cfg_.power_unit.present) {
         fail(p, "guard 'pump' but the machine file has no power_unit", "Add a power_unit section or remove the guard.");
       }
-      mask |= core::kPowerUnitGuardBit;
+      mask |= pump_allowed ? core::kPowerUnitGuardBit : 0u;
       continue;
     }
     const std::size_t dot = text.find('.');
@@ -1335,11 +1343,24 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     } else if (motion == "retract") {
       mask |= core::motion_bit(f, core::Direction::kRetract);
     } else {
-      fail(p, fmt::format("unknown motion '{}' in guard '{}'", motion, text),
+      fail(p, fmt::format("unknown motion '{}' in '{}'", motion, text),
            fmt::format("Write '{0}.extend', '{0}.retract' or '{0}' for both.", fname));
     }
   }
   return mask;
+}
+
+void Loader::load_two_hand_holds(const json& doc) {
+  const json* list = member(doc, "", "two_hand");
+  if (list == nullptr || !list->is_array()) return;
+  for (std::size_t i = 0; i < cfg_.two_hand_count; ++i) {
+    const json& item = (*list)[i];
+    if (!item.is_object() || !item.contains("release_holds")) continue;  // default: every motion
+    const std::string p = child(child("/two_hand", i), "release_holds");
+    const json& holds = item.at("release_holds");
+    if (!expect_array(holds, p)) continue;
+    cfg_.two_hand[i].release_holds = read_motion_list(holds, p, false);
+  }
 }
 
 void Loader::load_power_unit(const json& doc) {
@@ -1603,6 +1624,7 @@ void Loader::load(const json& doc) {
     p.stop = read_condition(*pu, "/power_unit", "stop");
   }
   load_operator(doc);
+  load_two_hand_holds(doc);
   load_interlocks(doc);
   load_sequence(doc);
   for (const auto& check : deferred_) check();

@@ -119,6 +119,11 @@ constexpr std::array kTable = {
             "Both buttons must be pressed within this time of each other.",
             // ISO 13851 type III synchronous actuation within 0.5 s: from memory.
             "ISO 13851 type III allows at most 500 ms between the two hands."},
+  Parameter{"/two_hand/*/release_holds", T::kGuardList, "", kOpt, "all", kNoLimit, kNoLimit, "",
+            "Motions a cycle started with this device holds when either hand comes off: 'f.extend', 'f.retract', 'f', 'all'; [] holds none.",
+            // ISO 13851 type III continuous actuation: from memory, clause not confirmed.
+            "ISO 13851 type III asks for continuous actuation while the motion is hazardous, so the default holds every motion of the cycle; "
+            "name fewer only where the later motions are not hazardous (spoolstep check warns about each one left out)."},
 
   Parameter{"/functions/*/name", T::kName, "", kReq, "", kNoLimit, kNoLimit, "",
             "Name of the function (one actuator on one directional valve); not 'all' or 'pump'.", ""},

@@ -18,7 +18,7 @@ using namespace spoolstep::core;
 
 static_assert(sizeof(FunctionConfig) == 288 && sizeof(ConditionNode) == 44 && sizeof(StepConfig) == 84 &&
                   sizeof(InterlockConfig) == 32 && sizeof(AnalogInputConfig) == 64 &&
-                  sizeof(PowerUnitConfig) == 20 && sizeof(OperatorConfig) == 14 && sizeof(MachineConfig) == 18864,
+                  sizeof(PowerUnitConfig) == 20 && sizeof(OperatorConfig) == 14 && sizeof(MachineConfig) == 18872,
               "a configuration struct changed: update config_compare.hpp and cmd_export.cpp");
 
 class ConfigDiff {
@@ -79,6 +79,7 @@ inline void compare(ConfigDiff& d, const std::string& p, const InterlockConfig& 
 }
 inline void compare(ConfigDiff& d, const std::string& p, const TwoHandConfig& a, const TwoHandConfig& b) {
   SPOOLSTEP_SAME(name); SPOOLSTEP_SAME(left_input); SPOOLSTEP_SAME(right_input); SPOOLSTEP_SAME(max_sync_us);
+  SPOOLSTEP_SAME(release_holds);
 }
 inline void compare(ConfigDiff& d, const std::string& p, const AnalogInputConfig& a, const AnalogInputConfig& b) {
   SPOOLSTEP_SAME(name); SPOOLSTEP_SAME(unit); SPOOLSTEP_SAME(signal); SPOOLSTEP_SAME(range_min);

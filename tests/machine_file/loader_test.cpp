@@ -171,6 +171,28 @@ TEST(Loading, AllGuardCoversEveryMotionAndThePump) {
   EXPECT_EQ(c.interlocks[1].guards, core::motion_bit(0, core::Direction::kExtend));
 }
 
+TEST(Loading, TwoHandReleaseHoldsEveryMotionUnlessTheFileNamesFewer) {
+  json doc = minimal();
+  doc["operator"]["cycle_start"] = {{"two_hand", "main"}};
+  auto result = load_machine_text(doc.dump(), "two_hand_default.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  EXPECT_EQ(result.machine->config.two_hand[0].release_holds, core::kAllMotionBits);
+  EXPECT_TRUE(configuration_warnings(result.machine->config).empty()) << "the safe default needs no warning";
+
+  doc["two_hand"][0]["release_holds"] = {"lift.extend"};
+  result = load_machine_text(doc.dump(), "two_hand_opt_out.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  EXPECT_EQ(c.two_hand[0].release_holds, core::motion_bit(0, core::Direction::kExtend));
+  const auto warnings = configuration_warnings(c);
+  ASSERT_EQ(warnings.size(), 1u);
+  EXPECT_NE(warnings[0].find("does not hold lift.retract"), std::string::npos) << warnings[0];
+
+  doc["two_hand"][0]["release_holds"] = {"pump"};
+  result = load_machine_text(doc.dump(), "two_hand_pump.json");
+  EXPECT_TRUE(has_error(result, "/two_hand/0/release_holds/0", "not a motion")) << dump_errors(result);
+}
+
 TEST(Loading, NameLookupsFindDeclaredNamesOnly) {
   const auto result = load_machine_text(minimal().dump(), "names.json");
   ASSERT_TRUE(result.ok()) << dump_errors(result);

@@ -44,7 +44,7 @@ static_assert(sizeof(RampConfig) == 48, "RampConfig changed: update cmd_export.c
 static_assert(sizeof(FunctionConfig) == 288, "FunctionConfig changed: update cmd_export.cpp");
 static_assert(sizeof(ConditionNode) == 44, "ConditionNode changed: update cmd_export.cpp");
 static_assert(sizeof(InterlockConfig) == 32, "InterlockConfig changed: update cmd_export.cpp");
-static_assert(sizeof(TwoHandConfig) == 32, "TwoHandConfig changed: update cmd_export.cpp");
+static_assert(sizeof(TwoHandConfig) == 36, "TwoHandConfig changed: update cmd_export.cpp");
 static_assert(sizeof(AnalogInputConfig) == 64, "AnalogInputConfig changed: update cmd_export.cpp");
 static_assert(sizeof(PropOutputConfig) == 25, "PropOutputConfig changed: update cmd_export.cpp");
 static_assert(sizeof(PowerUnitConfig) == 20, "PowerUnitConfig changed: update cmd_export.cpp");
@@ -53,7 +53,7 @@ static_assert(sizeof(StepAction) == 12, "StepAction changed: update cmd_export.c
 static_assert(sizeof(StepConfig) == 84, "StepConfig changed: update cmd_export.cpp");
 static_assert(sizeof(TransitionConfig) == 4, "TransitionConfig changed: update cmd_export.cpp");
 static_assert(sizeof(SafetyConfig) == 16, "SafetyConfig changed: update cmd_export.cpp");
-static_assert(sizeof(MachineConfig) == 18864, "MachineConfig changed: update cmd_export.cpp");
+static_assert(sizeof(MachineConfig) == 18872, "MachineConfig changed: update cmd_export.cpp");
 
 // ---- value spelling -------------------------------------------------------
 
@@ -271,6 +271,7 @@ void walk(Emitter& e, const std::string& p, const TwoHandConfig& t) {
   e.field(p + ".left_input", t.left_input);
   e.field(p + ".right_input", t.right_input);
   e.field(p + ".max_sync_us", t.max_sync_us);
+  e.field(p + ".release_holds", fmt::format("0x{:08x}u", t.release_holds));
 }
 
 void walk(Emitter& e, const std::string& p, const StepAction& a) {

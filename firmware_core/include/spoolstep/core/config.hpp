@@ -184,6 +184,13 @@ struct TwoHandConfig {
   std::uint8_t left_input = kNoIndex8;
   std::uint8_t right_input = kNoIndex8;
   std::uint32_t max_sync_us = 500000;
+  /// Motions a cycle started with this device holds (kAutoHeld) when either
+  /// hand comes off. ISO 13851 type III asks for continuous actuation during
+  /// the hazardous phase (from memory, clause not confirmed), so the default
+  /// is every motion of the cycle. A cycle whose later motions are not
+  /// hazardous (the return stroke of an opened tool) names the hazardous ones
+  /// only; `spoolstep check` warns about each motion of the cycle left out.
+  std::uint32_t release_holds = kAllMotionBits;
 };
 
 enum class AnalogSignal : std::uint8_t {

@@ -17,6 +17,10 @@ namespace spoolstep::core {
 /// Returns the first problem found, or ok.
 Status validate_config(const MachineConfig& config);
 
+/// Bit per two-hand device that `condition` reads, directly or through the
+/// nodes below it; 0 for kNoCondition. Needs nodes that passed validation.
+std::uint8_t two_hand_devices_read_by(const MachineConfig& config, std::uint16_t condition);
+
 class Controller {
  public:
   /// Binds the controller to `config` (which must outlive it) and returns to
@@ -62,6 +66,7 @@ class Controller {
   bool edge(bool value, bool& previous) const;
   void apply_fault_events(std::uint32_t now_us);
   bool initial_step_can_start() const;
+  std::uint16_t initial_step_unmet() const;
   void compute_reach();
   void check_inputs(const InputImage& inputs, std::uint32_t now_us);
   void raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t detail,
@@ -93,6 +98,8 @@ class Controller {
   bool prev_reset_ = false;
   bool prev_cycle_start_ = false;
   bool prev_pump_start_ = false;
+  std::uint8_t cycle_start_devices_ = 0;  // two-hand devices the cycle start condition reads
+  std::uint8_t holding_devices_ = 0;      // of those, the ones held when the running cycle was started
   std::uint32_t blocked_motions_ = 0;    // motions held off by a permissive
   std::uint32_t immediate_motions_ = 0;  // of those, the ones whose permissive stops in category 0
   std::uint32_t pump_elapsed_us_ = 0;

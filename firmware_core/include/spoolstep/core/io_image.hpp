@@ -103,7 +103,15 @@ enum class EventCode : std::uint8_t {
   kEndOfTravel,        ///< subject: function, detail: direction
   kPowerUnitState,     ///< subject: PowerUnitState
   kTwoHandBlocked,     ///< subject: device; the second hand came too late
-  kStartRefused,       ///< cycle start (or a continuous repeat) while the initial step's transition does not hold
+  kStartRefused,       ///< subject: StartRefusal, detail: the first unmet node of the initial step's transition
+  kTwoHandReleased,    ///< subject: device; a hand came off while the cycle it started ran (the cycle holds)
+};
+
+/// Why a cycle start was refused (subject of kStartRefused).
+enum class StartRefusal : std::uint8_t {
+  kNotReady = 0,      ///< the initial step's transition does not hold (detail: its first unmet node)
+  kStopPressed = 1,   ///< the operator stop is pressed: it overrides every start
+  kRepeatNotReady = 2,  ///< a continuous repeat whose start conditions do not hold ended the cycle
 };
 
 struct Event {
