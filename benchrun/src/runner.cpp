@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
@@ -17,15 +18,8 @@ float to_milliamp(const core::AnalogInputConfig& a, double value) {
   return static_cast<float>(4.0 + 16.0 * (value - static_cast<double>(a.range_min)) / span);
 }
 
-void set_command(core::OperatorCommands& c, const std::string& name, bool on) {
-  if (name == "reset") c.reset = on;
-  else if (name == "cycle_start") c.cycle_start = on;
-  else if (name == "cycle_stop") c.cycle_stop = on;
-  else if (name == "select_auto") c.select_auto = on;
-  else if (name == "continuous") c.continuous = on;
-  else if (name == "pump_start") c.pump_start = on;
-  else if (name == "pump_stop") c.pump_stop = on;
-  else if (name == "stop") c.stop = on;
+void set_command(core::OperatorCommands& c, core::SoftCommand command, bool on) {
+  if (bool* flag = core::soft_command_flag(c, command)) *flag = on;
 }
 
 }  // namespace

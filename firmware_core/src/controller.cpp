@@ -12,6 +12,8 @@
 
 #include <cmath>
 
+#include "spoolstep/core/soft_command.hpp"
+
 namespace spoolstep::core {
 namespace {
 
@@ -53,19 +55,20 @@ std::uint8_t two_hand_devices_read_by(const MachineConfig& c, std::uint16_t cond
     const ConditionNode& n = c.nodes[i];
     switch (n.op) {
       case ConditionOp::kTwoHandHeld:
-        devices[i] = static_cast<std::uint8_t>(1u << n.a);
+        if (n.a < kMaxTwoHandDevices) devices[i] = static_cast<std::uint8_t>(1u << n.a);
         break;
       case ConditionOp::kNodeRef:
       case ConditionOp::kNot:
       case ConditionOp::kOnDelay:
       case ConditionOp::kOffDelay:
       case ConditionOp::kDebounce:
-        devices[i] = devices[n.a];
+        if (n.a < i) devices[i] = devices[n.a];
         break;
       case ConditionOp::kAll:
       case ConditionOp::kAny:
-        for (std::uint16_t k = 0; k < n.b; ++k) {
-          devices[i] = static_cast<std::uint8_t>(devices[i] | devices[c.child_slots[n.a + k]]);
+        for (std::uint16_t k = 0; k < n.b && n.a + k < kMaxConditionChildren; ++k) {
+          const std::uint16_t child = c.child_slots[n.a + k];
+          if (child < i) devices[i] = static_cast<std::uint8_t>(devices[i] | devices[child]);
         }
         break;
       default:
@@ -90,6 +93,8 @@ Status Controller::init(const MachineConfig& config) {
   prev_reset_ = prev_cycle_start_ = prev_pump_start_ = false;
   cycle_start_devices_ = 0;
   holding_devices_ = 0;
+  commands_ = {};
+  refused_commands_ = 0;
   blocked_motions_ = immediate_motions_ = 0;
   pump_elapsed_us_ = 0;
   supervision_raised_ = false;
@@ -223,6 +228,36 @@ void Controller::check_inputs(const InputImage& in, std::uint32_t now_us) {
   if (c.safety.max_digital_age_us != 0 && in.digital_age_us > c.safety.max_digital_age_us) {
     raise_fault(FaultCode::kDigitalInputsStale, 0, 0, category, now_us);
   }
+}
+
+void Controller::accept_soft_commands(const OperatorCommands& requested, std::uint32_t now_us) {
+  const std::uint16_t enabled = config_->operator_panel.soft_commands;
+  commands_ = requested;
+  std::uint16_t refused = 0;
+  for (const SoftCommandRow& row : kSoftCommandTable) {
+    const std::uint16_t bit = soft_command_bit(row.command);
+    if ((enabled & bit) != 0) continue;
+    bool* flag = soft_command_flag(commands_, row.command);
+    if (flag != nullptr) {
+      if (*flag) refused = static_cast<std::uint16_t>(refused | bit);
+      *flag = false;
+    } else {  // jog: one enable for every function's direction
+      for (Direction& d : commands_.jog) {
+        if (d != Direction::kNone) refused = static_cast<std::uint16_t>(refused | bit);
+        d = Direction::kNone;
+      }
+    }
+  }
+  // Logged once when a refused command is first given, not on every scan it is held.
+  const std::uint16_t fresh = static_cast<std::uint16_t>(refused & ~refused_commands_);
+  if (fresh != 0) {
+    for (const SoftCommandRow& row : kSoftCommandTable) {
+      if ((fresh & soft_command_bit(row.command)) != 0) {
+        log(now_us, EventCode::kSoftCommandRefused, static_cast<std::uint8_t>(row.command), 0);
+      }
+    }
+  }
+  refused_commands_ = refused;
 }
 
 void Controller::update_two_hand(const InputImage& in, std::uint32_t dt_us, std::uint32_t now_us) {
@@ -454,9 +489,9 @@ std::uint16_t Controller::initial_step_unmet() const {
   return kNoCondition;
 }
 
-void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us) {
+void Controller::update_machine_state(std::uint32_t now_us) {
   const MachineConfig& c = *config_;
-  const OperatorCommands& cmd = in.commands;
+  const OperatorCommands& cmd = commands_;
   apply_fault_events(now_us);
   const bool reset = edge(node(c.operator_panel.reset) || cmd.reset, prev_reset_);
   const bool cycle_start =
@@ -566,16 +601,15 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
   }
 }
 
-void Controller::update_power_unit(const InputImage& in, std::uint32_t dt_us,
-                                   std::uint32_t now_us) {
+void Controller::update_power_unit(std::uint32_t dt_us, std::uint32_t now_us) {
   const PowerUnitConfig& pu = config_->power_unit;
   if (!pu.present) {
     diag_.power_unit = PowerUnitState::kReady;
     return;
   }
   const PowerUnitState before = diag_.power_unit;
-  const bool start = edge(node(pu.start) || in.commands.pump_start, prev_pump_start_);
-  const bool stop = node(pu.stop) || in.commands.pump_stop;
+  const bool start = edge(node(pu.start) || commands_.pump_start, prev_pump_start_);
+  const bool stop = node(pu.stop) || commands_.pump_stop;
   const bool allowed = pump_may_start(diag_.state) || diag_.state == MachineState::kStopping ||
                        (diag_.state == MachineState::kFaulted && !power_removed());
   const bool blocked = (blocked_motions_ & kPowerUnitGuardBit) != 0;
@@ -627,8 +661,8 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
     float speed = 0.0f;
     std::uint8_t ramp = r.ramp_index;
     if (diag_.state == MachineState::kManual) {
-      const bool ext = node(f.jog_extend) || in.commands.jog[i] == Direction::kExtend;
-      const bool ret = node(f.jog_retract) || in.commands.jog[i] == Direction::kRetract;
+      const bool ext = node(f.jog_extend) || commands_.jog[i] == Direction::kExtend;
+      const bool ret = node(f.jog_retract) || commands_.jog[i] == Direction::kRetract;
       // A jog held while the machine arrives in manual (reset, selector) must be
       // released and pressed again: a reset never starts motion by itself.
       if (!ext) r.rearm_extend = false;
@@ -914,15 +948,16 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
       c.safety.watchdog_us != 0 && raw_dt_us > c.safety.watchdog_us ? c.safety.watchdog_us : raw_dt_us;
   check_inputs(in, now_us);
   update_two_hand(in, dt_us, now_us);
-  continuous_command_ = in.commands.continuous;
+  accept_soft_commands(in.commands, now_us);
+  continuous_command_ = commands_.continuous;
   evaluate_conditions(in, dt_us);
   if (!in.digital[c.operator_panel.estop_input]) {  // normally closed: false = pressed or wire broken
     raise_fault(FaultCode::kEmergencyStop, 0, 0, c.operator_panel.estop_category, now_us);
   }
   update_interlocks(now_us);
-  update_machine_state(in, now_us);
+  update_machine_state(now_us);
   run_sequence(dt_us, now_us);
-  update_power_unit(in, dt_us, now_us);
+  update_power_unit(dt_us, now_us);
   apply_fault_events(now_us);  // faults raised by the chain or the power unit act in this scan
   decide_demands(in, now_us);
   for (std::uint8_t i = 0; i < c.function_count; ++i) drive_function(i, dt_us);
@@ -944,7 +979,7 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
   }
   if (diag_.state == MachineState::kStopping && all_stopped()) {
     apply_event(MachineEvent::kStopComplete, now_us);
-    update_power_unit(in, 0, now_us);  // category 1: power goes once the stop is complete
+    update_power_unit(0, now_us);  // category 1: power goes once the stop is complete
   }
   write_outputs(out);
   enforce_output_invariants(out, now_us);

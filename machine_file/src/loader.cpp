@@ -22,6 +22,8 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/core/controller.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/json_text.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
@@ -507,6 +509,7 @@ class Loader {
   std::uint32_t read_guards(const json& obj, const std::string& path);
   std::uint32_t read_motion_list(const json& list, const std::string& path, bool pump_allowed);
   void load_two_hand_holds(const json& doc);
+  void read_soft_commands(const json& op, const std::string& path);
 
   std::string file_;
   core::MachineConfig& cfg_;
@@ -1391,7 +1394,7 @@ void Loader::load_operator(const json& doc) {
   if (!expect_object(*op, "/operator")) return;
   const std::string path = "/operator";
   check_keys(*op, path, {"emergency_stop", "emergency_stop_category", "reset", "cycle_start", "cycle_stop",
-                         "auto_mode", "continuous", "stop"});
+                         "auto_mode", "continuous", "stop", "soft_commands"});
   auto& o = cfg_.operator_panel;
   o.estop_input = read_ref(*op, path, "emergency_stop");
   if (const auto cat = read_number(*op, path, "emergency_stop_category")) {
@@ -1403,6 +1406,47 @@ void Loader::load_operator(const json& doc) {
   o.auto_mode = read_condition(*op, path, "auto_mode");
   o.continuous = read_condition(*op, path, "continuous");
   o.stop = read_condition(*op, path, "stop");
+  read_soft_commands(*op, path);
+}
+
+void Loader::read_soft_commands(const json& op, const std::string& path) {
+  if (!op.contains("soft_commands")) return;  // default: none
+  const std::string sp = child(path, "soft_commands");
+  const json& list = op.at("soft_commands");
+  if (!expect_array(list, sp)) return;
+  auto& o = cfg_.operator_panel;
+  std::string names;
+  for (const core::SoftCommandRow& row : core::kSoftCommandTable) names += (names.empty() ? "" : ", ") + std::string(row.name);
+  for (std::size_t i = 0; i < list.size(); ++i) {
+    const std::string p = child(sp, i);
+    if (!list[i].is_string()) {
+      fail(p, fmt::format("must be a string (got {})", got_typed(list[i])), "Write the command name in double quotes.");
+      continue;
+    }
+    const std::string text = list[i].get<std::string>();
+    const core::SoftCommandRow* found = nullptr;
+    for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
+      if (text == row.name) found = &row;
+    }
+    if (found == nullptr) {
+      fail(p, fmt::format("unknown soft command '{}'", text), fmt::format("Soft commands: {}.", names));
+      continue;
+    }
+    // A soft command never replaces a control the file requires from a
+    // physical device (validate_config refuses these too).
+    if (found->command == core::SoftCommand::kCycleStart &&
+        core::two_hand_devices_read_by(cfg_, o.cycle_start) != 0) {
+      fail(p, "a soft cycle_start would replace the two-hand start that operator.cycle_start requires",
+           "Remove it: a two-hand start must come from the hands on the device (ISO 13851).");
+      continue;
+    }
+    if (found->command == core::SoftCommand::kSelectAuto && o.auto_mode != core::kNoCondition) {
+      fail(p, "a soft select_auto would override the mode selector that operator.auto_mode names",
+           "Remove it, or remove operator.auto_mode if the mode is chosen on the HMI only.");
+      continue;
+    }
+    o.soft_commands = static_cast<std::uint16_t>(o.soft_commands | core::soft_command_bit(found->command));
+  }
 }
 
 void Loader::load_interlocks(const json& doc) {

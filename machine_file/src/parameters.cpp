@@ -106,6 +106,12 @@ constexpr std::array kTable = {
             "True: cycle continuously; false: single cycle.", ""},
   Parameter{"/operator/stop", T::kCondition, "", kOpt, "", kNoLimit, kNoLimit, "",
             "True stops motion under control (category 2): a cycle holds, jogs stop, no start is accepted.", ""},
+  Parameter{"/operator/soft_commands", T::kSoftCommandList, "", kOpt, "[]", kNoLimit, kNoLimit, "",
+            "Soft commands (HMI, command channel, scenario 'command'/'jog') the core accepts: reset, cycle_start, cycle_stop, "
+            "select_auto, continuous, pump_start, pump_stop, stop, jog. Any other is refused and logged.",
+            "None by default, so a command channel acts only where the file says so. A soft command never replaces a "
+            "physical control the file requires: no cycle_start where a two-hand device starts the cycle, no "
+            "select_auto where auto_mode names a selector."},
 
   Parameter{"/two_hand/*/name", T::kName, "", kReq, "", kNoLimit, kNoLimit, "",
             "Name of the two-hand control device.", ""},
@@ -322,6 +328,7 @@ std::string_view to_string(ParamType type) {
     case ParamType::kCondition: return "condition";
     case ParamType::kRange: return "[low, high]";
     case ParamType::kGuardList: return "guard list";
+    case ParamType::kSoftCommandList: return "soft command list";
   }
   return "?";
 }

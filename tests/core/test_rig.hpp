@@ -9,6 +9,7 @@
 #include <gtest/gtest.h>
 
 #include "spoolstep/core/controller.hpp"
+#include "spoolstep/core/soft_command.hpp"
 
 namespace spoolstep::core::testing {
 
@@ -118,6 +119,12 @@ inline MachineConfig make_test_machine(bool with_power_unit = false) {
   c.operator_panel.reset = reset;
   c.operator_panel.auto_mode = auto_sel;
   c.operator_panel.cycle_start = start;
+  // The soft commands the tests give; reset, cycle start and select_auto
+  // come from the panel's inputs.
+  for (SoftCommand command : {SoftCommand::kCycleStop, SoftCommand::kContinuous, SoftCommand::kPumpStart,
+                              SoftCommand::kPumpStop, SoftCommand::kStop, SoftCommand::kJog}) {
+    c.operator_panel.soft_commands = static_cast<std::uint16_t>(c.operator_panel.soft_commands | soft_command_bit(command));
+  }
 
   c.two_hand[0] = TwoHandConfig{name("main"), kThLeft, kThRight, 500000};
   c.two_hand_count = 1;

@@ -18,7 +18,7 @@ using namespace spoolstep::core;
 
 static_assert(sizeof(FunctionConfig) == 288 && sizeof(ConditionNode) == 44 && sizeof(StepConfig) == 84 &&
                   sizeof(InterlockConfig) == 32 && sizeof(AnalogInputConfig) == 64 &&
-                  sizeof(PowerUnitConfig) == 20 && sizeof(OperatorConfig) == 14 && sizeof(MachineConfig) == 18872,
+                  sizeof(PowerUnitConfig) == 20 && sizeof(OperatorConfig) == 16 && sizeof(MachineConfig) == 18872,
               "a configuration struct changed: update config_compare.hpp and cmd_export.cpp");
 
 class ConfigDiff {
@@ -136,6 +136,7 @@ inline std::vector<std::string> config_differences(const MachineConfig& a, const
   SPOOLSTEP_SAME(operator_panel.reset); SPOOLSTEP_SAME(operator_panel.cycle_start);
   SPOOLSTEP_SAME(operator_panel.cycle_stop); SPOOLSTEP_SAME(operator_panel.auto_mode);
   SPOOLSTEP_SAME(operator_panel.stop);
+  SPOOLSTEP_SAME(operator_panel.soft_commands);
   SPOOLSTEP_SAME(operator_panel.continuous);
   compare_table(d, p + ".two_hand", a.two_hand, b.two_hand);
   SPOOLSTEP_SAME(two_hand_count);

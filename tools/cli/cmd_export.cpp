@@ -48,7 +48,7 @@ static_assert(sizeof(TwoHandConfig) == 36, "TwoHandConfig changed: update cmd_ex
 static_assert(sizeof(AnalogInputConfig) == 64, "AnalogInputConfig changed: update cmd_export.cpp");
 static_assert(sizeof(PropOutputConfig) == 25, "PropOutputConfig changed: update cmd_export.cpp");
 static_assert(sizeof(PowerUnitConfig) == 20, "PowerUnitConfig changed: update cmd_export.cpp");
-static_assert(sizeof(OperatorConfig) == 14, "OperatorConfig changed: update cmd_export.cpp");
+static_assert(sizeof(OperatorConfig) == 16, "OperatorConfig changed: update cmd_export.cpp");
 static_assert(sizeof(StepAction) == 12, "StepAction changed: update cmd_export.cpp");
 static_assert(sizeof(StepConfig) == 84, "StepConfig changed: update cmd_export.cpp");
 static_assert(sizeof(TransitionConfig) == 4, "TransitionConfig changed: update cmd_export.cpp");
@@ -343,6 +343,7 @@ std::string emit_body(const MachineConfig& c) {
   e.field("operator_panel.auto_mode", op.auto_mode);
   e.field("operator_panel.continuous", op.continuous);
   e.field("operator_panel.stop", op.stop);
+  e.field("operator_panel.soft_commands", op.soft_commands);
   walk_table(e, "two_hand", c.two_hand);
   e.field("two_hand_count", c.two_hand_count);
   walk_table(e, "nodes", c.nodes);

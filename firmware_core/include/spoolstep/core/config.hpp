@@ -237,6 +237,13 @@ struct OperatorConfig {
   /// controlled, power kept): an automatic cycle holds, jogs stop, and no
   /// start is accepted while it is true. Overrides every start.
   std::uint16_t stop = kNoCondition;
+  /// Bit per SoftCommand (soft_command.hpp) the core accepts from
+  /// OperatorCommands. Default none: a command channel acts only where the
+  /// file says so, and never in place of a control the file requires from a
+  /// physical device (validate_config refuses a soft cycle start where a
+  /// two-hand device starts the cycle, and a soft select_auto where a
+  /// selector sets the mode).
+  std::uint16_t soft_commands = 0;
 };
 
 struct StepAction {

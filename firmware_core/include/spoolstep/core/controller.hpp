@@ -69,14 +69,15 @@ class Controller {
   std::uint16_t initial_step_unmet() const;
   void compute_reach();
   void check_inputs(const InputImage& inputs, std::uint32_t now_us);
+  void accept_soft_commands(const OperatorCommands& requested, std::uint32_t now_us);
   void raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t detail,
                    StopCategory category, std::uint32_t now_us);
   void update_two_hand(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
   void update_interlocks(std::uint32_t now_us);
-  void update_machine_state(const InputImage& inputs, std::uint32_t now_us);
+  void update_machine_state(std::uint32_t now_us);
   void apply_event(MachineEvent event, std::uint32_t now_us);
   void run_sequence(std::uint32_t dt_us, std::uint32_t now_us);
-  void update_power_unit(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
+  void update_power_unit(std::uint32_t dt_us, std::uint32_t now_us);
   void decide_demands(const InputImage& inputs, std::uint32_t now_us);
   void drive_function(std::uint8_t index, std::uint32_t dt_us);
   void write_outputs(OutputImage& outputs) const;
@@ -100,6 +101,8 @@ class Controller {
   bool prev_pump_start_ = false;
   std::uint8_t cycle_start_devices_ = 0;  // two-hand devices the cycle start condition reads
   std::uint8_t holding_devices_ = 0;      // of those, the ones held when the running cycle was started
+  OperatorCommands commands_{};           // the soft commands of this scan the file enables
+  std::uint16_t refused_commands_ = 0;    // bit per SoftCommand refused in the previous scan
   std::uint32_t blocked_motions_ = 0;    // motions held off by a permissive
   std::uint32_t immediate_motions_ = 0;  // of those, the ones whose permissive stops in category 0
   std::uint32_t pump_elapsed_us_ = 0;
