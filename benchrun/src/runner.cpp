@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "spoolstep/core/analog.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/io/clock.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
@@ -21,15 +22,8 @@ float to_milliamp(const core::AnalogInputConfig& a, double value) {
       core::loop_from_engineering(value, static_cast<double>(a.range_min), static_cast<double>(a.range_max)));
 }
 
-void set_command(core::OperatorCommands& c, const std::string& name, bool on) {
-  if (name == "reset") c.reset = on;
-  else if (name == "cycle_start") c.cycle_start = on;
-  else if (name == "cycle_stop") c.cycle_stop = on;
-  else if (name == "select_auto") c.select_auto = on;
-  else if (name == "continuous") c.continuous = on;
-  else if (name == "pump_start") c.pump_start = on;
-  else if (name == "pump_stop") c.pump_stop = on;
-  else if (name == "stop") c.stop = on;
+void set_command(core::OperatorCommands& c, core::SoftCommand command, bool on) {
+  if (bool* flag = core::soft_command_flag(c, command)) *flag = on;
 }
 
 /// The scenario's timeline over the backend's sensors: at each scan it

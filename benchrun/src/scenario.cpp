@@ -12,6 +12,7 @@
 
 #include "spoolstep/benchrun/runner.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/json_text.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
@@ -21,8 +22,22 @@ namespace {
 using json = nlohmann::json;
 using machine_file::name_view;
 
-const char* const kCommands[] = {"reset",      "cycle_start", "cycle_stop", "select_auto",
-                                 "continuous", "pump_start",  "pump_stop",  "stop"};
+// The on/off soft commands ("jog" is its own timeline entry), named as in
+// the core's kSoftCommandTable.
+std::optional<core::SoftCommand> on_off_command(const std::string& name) {
+  for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
+    if (row.command != core::SoftCommand::kJog && name == row.name) return row.command;
+  }
+  return std::nullopt;
+}
+
+std::string on_off_command_list() {
+  std::string list;
+  for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
+    if (row.command != core::SoftCommand::kJog) list += (list.empty() ? "" : ", ") + std::string(row.name);
+  }
+  return list;
+}
 
 class Reader {
  public:
@@ -195,10 +210,10 @@ class Reader {
       const std::string p = path + "/command";
       if (!e["command"].is_object()) error(p, "must be an object of command name to true/false", "Write {\"cycle_stop\": true}.");
       else for (const auto& [name, v] : e["command"].items()) {
-        const bool known = std::any_of(std::begin(kCommands), std::end(kCommands), [&](const char* c) { return name == c; });
-        if (!known) { error(p + "/" + name, fmt::format("unknown command '{}'", name), "Commands: reset, cycle_start, cycle_stop, select_auto, continuous, pump_start, pump_stop, stop."); continue; }
+        const std::optional<core::SoftCommand> command = on_off_command(name);
+        if (!command) { error(p + "/" + name, fmt::format("unknown command '{}'", name), "Commands: " + on_off_command_list() + "."); continue; }
         if (!v.is_boolean()) { error(p + "/" + name, "must be true or false", "Commands are levels: true until set false."); continue; }
-        TimelineEvent ev; ev.kind = TimelineEvent::Kind::kCommand; ev.command = name; ev.value = v.get<bool>() ? 1 : 0;
+        TimelineEvent ev; ev.kind = TimelineEvent::Kind::kCommand; ev.command = *command; ev.value = v.get<bool>() ? 1 : 0;
         add(ev, p + "/" + name);
       }
     }

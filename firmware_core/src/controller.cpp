@@ -13,6 +13,8 @@
 
 #include <cmath>
 
+#include "spoolstep/core/soft_command.hpp"
+
 namespace spoolstep::core {
 namespace {
 
@@ -41,6 +43,38 @@ float current_for(const SolenoidCurrent& range, float fraction) {
 
 }  // namespace
 
+std::uint8_t two_hand_devices_read_by(const MachineConfig& c, std::uint16_t condition) {
+  if (condition == kNoCondition || condition >= c.node_count) return 0;
+  // Nodes read only lower indices, so one pass in index order collects the
+  // devices every node depends on.
+  std::array<std::uint8_t, kMaxConditionNodes> devices{};
+  for (std::uint16_t i = 0; i <= condition; ++i) {
+    const ConditionNode& n = c.nodes[i];
+    switch (n.op) {
+      case ConditionOp::kTwoHandHeld:
+        if (n.a < kMaxTwoHandDevices) devices[i] = static_cast<std::uint8_t>(1u << n.a);
+        break;
+      case ConditionOp::kNodeRef:
+      case ConditionOp::kNot:
+      case ConditionOp::kOnDelay:
+      case ConditionOp::kOffDelay:
+      case ConditionOp::kDebounce:
+        if (n.a < i) devices[i] = devices[n.a];
+        break;
+      case ConditionOp::kAll:
+      case ConditionOp::kAny:
+        for (std::uint16_t k = 0; k < n.b && n.a + k < kMaxConditionChildren; ++k) {
+          const std::uint16_t child = c.child_slots[n.a + k];
+          if (child < i) devices[i] = static_cast<std::uint8_t>(devices[i] | devices[child]);
+        }
+        break;
+      default:
+        break;
+    }
+  }
+  return devices[condition];
+}
+
 Status Controller::init(const MachineConfig& config) {
   config_ = &config;
   const Status status = validate_config(config);
@@ -54,6 +88,10 @@ Status Controller::init(const MachineConfig& config) {
   for (TwoHandStep& t : two_hand_) t.phase = TwoHandPhase::kBlocked;
   functions_ = {};
   prev_reset_ = prev_cycle_start_ = prev_pump_start_ = false;
+  cycle_start_devices_ = 0;
+  holding_devices_ = 0;
+  commands_ = {};
+  refused_commands_ = 0;
   blocked_motions_ = immediate_motions_ = 0;
   pump_elapsed_us_ = 0;
   supervision_raised_ = false;
@@ -68,6 +106,7 @@ Status Controller::init(const MachineConfig& config) {
   diag_ = Diagnostics{};
   if (config_ok_) {
     compute_reach();
+    cycle_start_devices_ = two_hand_devices_read_by(config, config.operator_panel.cycle_start);
     for (std::uint8_t i = 0; i < config.function_count; ++i) {
       const FunctionConfig& f = config.functions[i];
       if (is_proportional(f.valve) && f.quick_stop_us + kStopMarginUs > stop_limit_us_) {
@@ -188,6 +227,36 @@ void Controller::check_inputs(const InputImage& in, std::uint32_t now_us) {
   }
 }
 
+void Controller::accept_soft_commands(const OperatorCommands& requested, std::uint32_t now_us) {
+  const std::uint16_t enabled = config_->operator_panel.soft_commands;
+  commands_ = requested;
+  std::uint16_t refused = 0;
+  for (const SoftCommandRow& row : kSoftCommandTable) {
+    const std::uint16_t bit = soft_command_bit(row.command);
+    if ((enabled & bit) != 0) continue;
+    bool* flag = soft_command_flag(commands_, row.command);
+    if (flag != nullptr) {
+      if (*flag) refused = static_cast<std::uint16_t>(refused | bit);
+      *flag = false;
+    } else {  // jog: one enable for every function's direction
+      for (Direction& d : commands_.jog) {
+        if (d != Direction::kNone) refused = static_cast<std::uint16_t>(refused | bit);
+        d = Direction::kNone;
+      }
+    }
+  }
+  // Logged once when a refused command is first given, not on every scan it is held.
+  const std::uint16_t fresh = static_cast<std::uint16_t>(refused & ~refused_commands_);
+  if (fresh != 0) {
+    for (const SoftCommandRow& row : kSoftCommandTable) {
+      if ((fresh & soft_command_bit(row.command)) != 0) {
+        log(now_us, EventCode::kSoftCommandRefused, static_cast<std::uint8_t>(row.command), 0);
+      }
+    }
+  }
+  refused_commands_ = refused;
+}
+
 void Controller::update_two_hand(const InputImage& in, std::uint32_t dt_us, std::uint32_t now_us) {
   const MachineConfig& c = *config_;
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
@@ -196,7 +265,12 @@ void Controller::update_two_hand(const InputImage& in, std::uint32_t dt_us, std:
     two_hand_[i] = advance_two_hand(two_hand_[i], in.digital[t.left_input],
                                     in.digital[t.right_input], dt_us, t.max_sync_us, late);
     if (late) log(now_us, EventCode::kTwoHandBlocked, i, 0);
-    diag_.two_hand_held[i] = two_hand_[i].phase == TwoHandPhase::kHeld;
+    const bool held = two_hand_[i].phase == TwoHandPhase::kHeld;
+    if (diag_.two_hand_held[i] && !held && ((holding_devices_ >> i) & 1u) != 0 &&
+        chain_running(diag_.state)) {
+      log(now_us, EventCode::kTwoHandReleased, i, 0);
+    }
+    diag_.two_hand_held[i] = held;
   }
 }
 
@@ -362,6 +436,15 @@ void Controller::update_interlocks(std::uint32_t now_us) {
       if ((previous_ok & bit) && !first_scan_) log(now_us, EventCode::kPermissiveLost, i, 0);
     }
   }
+  // A two-hand device that started the running cycle acts as a permissive
+  // over its release_holds motions: ISO 13851 type III, continuous actuation
+  // for the hazardous phase (from memory). Releasing either hand holds the
+  // cycle; only a new two-hand actuation (a new cycle start) resumes it.
+  for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
+    if (((holding_devices_ >> i) & 1u) != 0 && !diag_.two_hand_held[i]) {
+      blocked_motions_ |= c.two_hand[i].release_holds;
+    }
+  }
 }
 
 void Controller::apply_event(MachineEvent event, std::uint32_t now_us) {
@@ -395,9 +478,17 @@ bool Controller::initial_step_can_start() const {
   return false;
 }
 
-void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us) {
+std::uint16_t Controller::initial_step_unmet() const {
   const MachineConfig& c = *config_;
-  const OperatorCommands& cmd = in.commands;
+  for (std::uint8_t t = 0; t < c.transition_count; ++t) {
+    if (c.transitions[t].from_step == 0) return first_unmet(c.transitions[t].condition);
+  }
+  return kNoCondition;
+}
+
+void Controller::update_machine_state(std::uint32_t now_us) {
+  const MachineConfig& c = *config_;
+  const OperatorCommands& cmd = commands_;
   apply_fault_events(now_us);
   const bool reset = edge(node(c.operator_panel.reset) || cmd.reset, prev_reset_);
   const bool cycle_start =
@@ -426,20 +517,34 @@ void Controller::update_machine_state(const InputImage& in, std::uint32_t now_us
   if (operator_stop_) apply_event(MachineEvent::kStopRequest, now_us);
   if (cycle_start) {
     if (operator_stop_) {
-      log(now_us, EventCode::kStartRefused, 1, 0);  // the stop overrides every start
+      // The stop overrides every start.
+      log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kStopPressed), 0);
     } else if (diag_.state == MachineState::kAutoIdle && !initial_step_can_start()) {
       // A start the machine cannot act on now is refused, not stored: it
       // would otherwise fire by itself when the conditions come true later.
-      log(now_us, EventCode::kStartRefused, 0, 0);
+      log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kNotReady),
+          initial_step_unmet());
     } else {
+      const MachineState before = diag_.state;
       apply_event(MachineEvent::kCycleStart, now_us);
+      if (diag_.state != before) {
+        // The devices held at this start hold the cycle when released.
+        std::uint8_t held = 0;
+        for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
+          if (diag_.two_hand_held[i]) held = static_cast<std::uint8_t>(held | (1u << i));
+        }
+        holding_devices_ = static_cast<std::uint8_t>(held & cycle_start_devices_);
+      }
     }
   }
   if (cycle_stop && (chain_running(diag_.state) || diag_.state == MachineState::kAutoHeld)) {
     end_cycle_requested_ = true;
   }
   if (end_cycle_requested_) apply_event(MachineEvent::kCycleStop, now_us);
-  if (!chain_running(diag_.state) && diag_.state != MachineState::kAutoHeld) end_cycle_requested_ = false;
+  if (!chain_running(diag_.state) && diag_.state != MachineState::kAutoHeld) {
+    end_cycle_requested_ = false;
+    holding_devices_ = 0;
+  }
   // A permissive that guards any motion the chain may still demand in this
   // cycle holds it, whatever the present step moves: closing a guard must
   // never let the cycle go on by itself.
@@ -474,7 +579,8 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
   if (active == 0) {
     // A cycle (or a continuous repeat) whose start conditions do not hold
     // ends here instead of waiting to start by itself later.
-    log(now_us, EventCode::kStartRefused, 0, 0);
+    log(now_us, EventCode::kStartRefused, static_cast<std::uint8_t>(StartRefusal::kRepeatNotReady),
+        initial_step_unmet());
     apply_event(MachineEvent::kCycleComplete, now_us);
     return;
   }
@@ -492,16 +598,15 @@ void Controller::run_sequence(std::uint32_t dt_us, std::uint32_t now_us) {
   }
 }
 
-void Controller::update_power_unit(const InputImage& in, std::uint32_t dt_us,
-                                   std::uint32_t now_us) {
+void Controller::update_power_unit(std::uint32_t dt_us, std::uint32_t now_us) {
   const PowerUnitConfig& pu = config_->power_unit;
   if (!pu.present) {
     diag_.power_unit = PowerUnitState::kReady;
     return;
   }
   const PowerUnitState before = diag_.power_unit;
-  const bool start = edge(node(pu.start) || in.commands.pump_start, prev_pump_start_);
-  const bool stop = node(pu.stop) || in.commands.pump_stop;
+  const bool start = edge(node(pu.start) || commands_.pump_start, prev_pump_start_);
+  const bool stop = node(pu.stop) || commands_.pump_stop;
   const bool allowed = pump_may_start(diag_.state) || diag_.state == MachineState::kStopping ||
                        (diag_.state == MachineState::kFaulted && !power_removed());
   const bool blocked = (blocked_motions_ & kPowerUnitGuardBit) != 0;
@@ -553,8 +658,8 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
     float speed = 0.0f;
     std::uint8_t ramp = r.ramp_index;
     if (diag_.state == MachineState::kManual) {
-      const bool ext = node(f.jog_extend) || in.commands.jog[i] == Direction::kExtend;
-      const bool ret = node(f.jog_retract) || in.commands.jog[i] == Direction::kRetract;
+      const bool ext = node(f.jog_extend) || commands_.jog[i] == Direction::kExtend;
+      const bool ret = node(f.jog_retract) || commands_.jog[i] == Direction::kRetract;
       // A jog held while the machine arrives in manual (reset, selector) must be
       // released and pressed again: a reset never starts motion by itself.
       if (!ext) r.rearm_extend = false;
@@ -840,15 +945,16 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
       c.safety.watchdog_us != 0 && raw_dt_us > c.safety.watchdog_us ? c.safety.watchdog_us : raw_dt_us;
   check_inputs(in, now_us);
   update_two_hand(in, dt_us, now_us);
-  continuous_command_ = in.commands.continuous;
+  accept_soft_commands(in.commands, now_us);
+  continuous_command_ = commands_.continuous;
   evaluate_conditions(in, dt_us);
   if (!in.digital[c.operator_panel.estop_input]) {  // normally closed: false = pressed or wire broken
     raise_fault(FaultCode::kEmergencyStop, 0, 0, c.operator_panel.estop_category, now_us);
   }
   update_interlocks(now_us);
-  update_machine_state(in, now_us);
+  update_machine_state(now_us);
   run_sequence(dt_us, now_us);
-  update_power_unit(in, dt_us, now_us);
+  update_power_unit(dt_us, now_us);
   apply_fault_events(now_us);  // faults raised by the chain or the power unit act in this scan
   decide_demands(in, now_us);
   for (std::uint8_t i = 0; i < c.function_count; ++i) drive_function(i, dt_us);
@@ -870,7 +976,7 @@ void Controller::scan(const InputImage& in, std::uint32_t now_us, OutputImage& o
   }
   if (diag_.state == MachineState::kStopping && all_stopped()) {
     apply_event(MachineEvent::kStopComplete, now_us);
-    update_power_unit(in, 0, now_us);  // category 1: power goes once the stop is complete
+    update_power_unit(0, now_us);  // category 1: power goes once the stop is complete
   }
   write_outputs(out);
   enforce_output_invariants(out, now_us);

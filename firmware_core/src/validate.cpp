@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "spoolstep/core/controller.hpp"
+#include "spoolstep/core/soft_command.hpp"
 
 namespace spoolstep::core {
 namespace {
@@ -197,10 +198,21 @@ Status validate_config(const MachineConfig& c) {
       !cond_ok(op.continuous, c.node_count) || !cond_ok(op.stop, c.node_count))
     return Status::error(StatusCode::kIndexOutOfRange, "operator", 0);
 
+  // A soft command never replaces a control the file requires from a
+  // physical device: a two-hand start (ISO 13851, from memory: the hands are
+  // to be on the device while the hazard lasts) or a mode selector.
+  if ((op.soft_commands & ~((1u << kSoftCommandCount) - 1u)) != 0)
+    return Status::error(StatusCode::kBadValue, "operator", 0);
+  if ((op.soft_commands & soft_command_bit(SoftCommand::kCycleStart)) != 0 &&
+      two_hand_devices_read_by(c, op.cycle_start) != 0)
+    return Status::error(StatusCode::kBadValue, "operator", 0);
+  if ((op.soft_commands & soft_command_bit(SoftCommand::kSelectAuto)) != 0 && op.auto_mode != kNoCondition)
+    return Status::error(StatusCode::kBadValue, "operator", 0);
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
     const TwoHandConfig& t = c.two_hand[i];
     if (t.left_input >= c.digital_input_count || t.right_input >= c.digital_input_count)
       return Status::error(StatusCode::kIndexOutOfRange, "two_hand", i);
+    if ((t.release_holds & ~kAllMotionBits) != 0) return Status::error(StatusCode::kBadValue, "two_hand", i);
   }
   const std::uint32_t all_guards = ((std::uint32_t{1} << (c.function_count * 2u)) - 1u) | kPowerUnitGuardBit;
   for (std::uint8_t i = 0; i < c.interlock_count; ++i) {

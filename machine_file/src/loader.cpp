@@ -22,6 +22,8 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/core/controller.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/json_text.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
@@ -507,6 +509,9 @@ class Loader {
   void load_interlocks(const json& doc);
   void load_sequence(const json& doc);
   std::uint32_t read_guards(const json& obj, const std::string& path);
+  std::uint32_t read_motion_list(const json& list, const std::string& path, bool pump_allowed);
+  void load_two_hand_holds(const json& doc);
+  void read_soft_commands(const json& op, const std::string& path);
 
   std::string file_;
   core::MachineConfig& cfg_;
@@ -978,7 +983,7 @@ void Loader::load_two_hand(const json& doc) {
     const json& item = (*list)[i];
     if (!expect_object(item, p)) continue;
     auto& th = cfg_.two_hand[i];
-    check_keys(item, p, {"name", "description", "left", "right", "max_sync_ms"});
+    check_keys(item, p, {"name", "description", "left", "right", "max_sync_ms", "release_holds"});
     read_string(item, p, "description");
     const std::string name = read_name(item, p);
     set_name(th.name, name);
@@ -1291,12 +1296,16 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     fail(gp, "an interlock must guard something", "List the motions it stops, e.g. [\"press.extend\"], or \"all\".");
     return 0;
   }
+  return read_motion_list(*list, gp, true);
+}
+
+std::uint32_t Loader::read_motion_list(const json& list, const std::string& gp, bool pump_allowed) {
   std::uint32_t mask = 0;
-  for (std::size_t i = 0; i < list->size(); ++i) {
-    const json& g = (*list)[i];
+  for (std::size_t i = 0; i < list.size(); ++i) {
+    const json& g = list[i];
     const std::string p = child(gp, i);
     if (!g.is_string()) {
-      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the guard in double quotes.");
+      fail(p, fmt::format("must be a string (got {})", got_typed(g)), "Write the motion in double quotes.");
       continue;
     }
     const std::string text = g.get<std::string>();
@@ -1304,14 +1313,16 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
       for (std::uint8_t f = 0; f < cfg_.function_count; ++f) {
         mask |= core::motion_bit(f, core::Direction::kExtend) | core::motion_bit(f, core::Direction::kRetract);
       }
-      if (cfg_.power_unit.present) mask |= core::kPowerUnitGuardBit;
+      if (pump_allowed && cfg_.power_unit.present) mask |= core::kPowerUnitGuardBit;
       continue;
     }
     if (text == "pump") {
-      if (!cfg_.power_unit.present) {
+      if (!pump_allowed) {
+        fail(p, "'pump' is not a motion here", "List motions only: 'f.extend', 'f.retract', 'f' or 'all'.");
+      } else if (!cfg_.power_unit.present) {
         fail(p, "guard 'pump' but the machine file has no power_unit", "Add a power_unit section or remove the guard.");
       }
-      mask |= core::kPowerUnitGuardBit;
+      mask |= pump_allowed ? core::kPowerUnitGuardBit : 0u;
       continue;
     }
     const std::size_t dot = text.find('.');
@@ -1328,11 +1339,24 @@ std::uint32_t Loader::read_guards(const json& obj, const std::string& path) {
     } else if (motion == "retract") {
       mask |= core::motion_bit(f, core::Direction::kRetract);
     } else {
-      fail(p, fmt::format("unknown motion '{}' in guard '{}'", motion, text),
+      fail(p, fmt::format("unknown motion '{}' in '{}'", motion, text),
            fmt::format("Write '{0}.extend', '{0}.retract' or '{0}' for both.", fname));
     }
   }
   return mask;
+}
+
+void Loader::load_two_hand_holds(const json& doc) {
+  const json* list = member(doc, "", "two_hand");
+  if (list == nullptr || !list->is_array()) return;
+  for (std::size_t i = 0; i < cfg_.two_hand_count; ++i) {
+    const json& item = (*list)[i];
+    if (!item.is_object() || !item.contains("release_holds")) continue;  // default: every motion
+    const std::string p = child(child("/two_hand", i), "release_holds");
+    const json& holds = item.at("release_holds");
+    if (!expect_array(holds, p)) continue;
+    cfg_.two_hand[i].release_holds = read_motion_list(holds, p, false);
+  }
 }
 
 void Loader::load_power_unit(const json& doc) {
@@ -1363,7 +1387,7 @@ void Loader::load_operator(const json& doc) {
   if (!expect_object(*op, "/operator")) return;
   const std::string path = "/operator";
   check_keys(*op, path, {"emergency_stop", "emergency_stop_category", "reset", "cycle_start", "cycle_stop",
-                         "auto_mode", "continuous", "stop"});
+                         "auto_mode", "continuous", "stop", "soft_commands"});
   auto& o = cfg_.operator_panel;
   o.estop_input = read_ref(*op, path, "emergency_stop");
   if (const auto cat = read_number(*op, path, "emergency_stop_category")) {
@@ -1375,6 +1399,47 @@ void Loader::load_operator(const json& doc) {
   o.auto_mode = read_condition(*op, path, "auto_mode");
   o.continuous = read_condition(*op, path, "continuous");
   o.stop = read_condition(*op, path, "stop");
+  read_soft_commands(*op, path);
+}
+
+void Loader::read_soft_commands(const json& op, const std::string& path) {
+  if (!op.contains("soft_commands")) return;  // default: none
+  const std::string sp = child(path, "soft_commands");
+  const json& list = op.at("soft_commands");
+  if (!expect_array(list, sp)) return;
+  auto& o = cfg_.operator_panel;
+  std::string names;
+  for (const core::SoftCommandRow& row : core::kSoftCommandTable) names += (names.empty() ? "" : ", ") + std::string(row.name);
+  for (std::size_t i = 0; i < list.size(); ++i) {
+    const std::string p = child(sp, i);
+    if (!list[i].is_string()) {
+      fail(p, fmt::format("must be a string (got {})", got_typed(list[i])), "Write the command name in double quotes.");
+      continue;
+    }
+    const std::string text = list[i].get<std::string>();
+    const core::SoftCommandRow* found = nullptr;
+    for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
+      if (text == row.name) found = &row;
+    }
+    if (found == nullptr) {
+      fail(p, fmt::format("unknown soft command '{}'", text), fmt::format("Soft commands: {}.", names));
+      continue;
+    }
+    // A soft command never replaces a control the file requires from a
+    // physical device (validate_config refuses these too).
+    if (found->command == core::SoftCommand::kCycleStart &&
+        core::two_hand_devices_read_by(cfg_, o.cycle_start) != 0) {
+      fail(p, "a soft cycle_start would replace the two-hand start that operator.cycle_start requires",
+           "Remove it: a two-hand start must come from the hands on the device (ISO 13851).");
+      continue;
+    }
+    if (found->command == core::SoftCommand::kSelectAuto && o.auto_mode != core::kNoCondition) {
+      fail(p, "a soft select_auto would override the mode selector that operator.auto_mode names",
+           "Remove it, or remove operator.auto_mode if the mode is chosen on the HMI only.");
+      continue;
+    }
+    o.soft_commands = static_cast<std::uint16_t>(o.soft_commands | core::soft_command_bit(found->command));
+  }
 }
 
 void Loader::load_interlocks(const json& doc) {
@@ -1596,6 +1661,7 @@ void Loader::load(const json& doc) {
     p.stop = read_condition(*pu, "/power_unit", "stop");
   }
   load_operator(doc);
+  load_two_hand_holds(doc);
   load_interlocks(doc);
   load_sequence(doc);
   for (const auto& check : deferred_) check();

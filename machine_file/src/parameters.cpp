@@ -129,6 +129,12 @@ constexpr std::array kTable = {
             "True: cycle continuously; false: single cycle.", ""},
   Parameter{"/operator/stop", T::kCondition, "", kOpt, "", kNoLimit, kNoLimit, "",
             "True stops motion under control (category 2): a cycle holds, jogs stop, no start is accepted.", ""},
+  Parameter{"/operator/soft_commands", T::kSoftCommandList, "", kOpt, "[]", kNoLimit, kNoLimit, "",
+            "Soft commands (HMI, command channel, scenario 'command'/'jog') the core accepts: reset, cycle_start, cycle_stop, "
+            "select_auto, continuous, pump_start, pump_stop, stop, jog. Any other is refused and logged.",
+            "None by default, so a command channel acts only where the file says so. A soft command never replaces a "
+            "physical control the file requires: no cycle_start where a two-hand device starts the cycle, no "
+            "select_auto where auto_mode names a selector."},
 
   Parameter{"/two_hand/*/name", T::kName, "", kReq, "", kNoLimit, kNoLimit, "",
             "Name of the two-hand control device.", ""},
@@ -142,6 +148,11 @@ constexpr std::array kTable = {
             "Both buttons must be pressed within this time of each other.",
             // ISO 13851 type III synchronous actuation within 0.5 s: from memory.
             "ISO 13851 type III allows at most 500 ms between the two hands."},
+  Parameter{"/two_hand/*/release_holds", T::kGuardList, "", kOpt, "all", kNoLimit, kNoLimit, "",
+            "Motions a cycle started with this device holds when either hand comes off: 'f.extend', 'f.retract', 'f', 'all'; [] holds none.",
+            // ISO 13851 type III continuous actuation: from memory, clause not confirmed.
+            "ISO 13851 type III asks for continuous actuation while the motion is hazardous, so the default holds every motion of the cycle; "
+            "name fewer only where the later motions are not hazardous (spoolstep check warns about each one left out)."},
 
   Parameter{"/functions/*/name", T::kName, "", kReq, "", kNoLimit, kNoLimit, "",
             "Name of the function (one actuator on one directional valve); not 'all' or 'pump'.", ""},
@@ -340,6 +351,7 @@ std::string_view to_string(ParamType type) {
     case ParamType::kCondition: return "condition";
     case ParamType::kRange: return "[low, high]";
     case ParamType::kGuardList: return "guard list";
+    case ParamType::kSoftCommandList: return "soft command list";
   }
   return "?";
 }

@@ -7,6 +7,7 @@
 
 #include <fmt/format.h>
 
+#include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
 
@@ -224,8 +225,11 @@ std::string summarize(const core::MachineConfig& c) {
   out << fmt::format("  automatic when {}; continuous when {}\n", cond(op.auto_mode), cond(op.continuous));
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
     const auto& th = c.two_hand[i];
-    out << fmt::format("Two-hand {}: {} + {} within {}\n", name(th.name), din_text(c, th.left_input),
-                       din_text(c, th.right_input), ms(th.max_sync_us));
+    out << fmt::format("Two-hand {}: {} + {} within {}; releasing a hand holds {}\n", name(th.name),
+                       din_text(c, th.left_input), din_text(c, th.right_input), ms(th.max_sync_us),
+                       (th.release_holds & core::kAllMotionBits) == core::kAllMotionBits
+                           ? std::string("every motion")
+                           : guard_text(c, th.release_holds & core::kAllMotionBits));
   }
 
   out << fmt::format("Interlocks ({}):\n", c.interlock_count);
@@ -288,6 +292,29 @@ void write_parameter_reference(std::ostream& out) {
                        numeric ? fmt::format("{:g}", p.min) : std::string(),
                        numeric ? fmt::format("{:g}", p.max) : std::string(), description);
   }
+}
+
+std::vector<std::string> configuration_warnings(const core::MachineConfig& c) {
+  std::vector<std::string> warnings;
+  std::uint32_t cycle_motions = 0;  // every motion some step of the cycle demands
+  for (std::uint8_t s = 0; s < c.step_count; ++s) {
+    for (std::uint8_t k = 0; k < c.steps[s].action_count; ++k) {
+      cycle_motions |= core::motion_bit(c.steps[s].actions[k].function, c.steps[s].actions[k].direction);
+    }
+  }
+  const std::uint8_t starters = core::two_hand_devices_read_by(c, c.operator_panel.cycle_start);
+  for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
+    if (((starters >> i) & 1u) == 0) continue;
+    const std::uint32_t free_running = cycle_motions & ~c.two_hand[i].release_holds;
+    if (free_running == 0) continue;
+    // ISO 13851 type III continuous actuation (from memory): the file chose
+    // to let these motions go on without the hands; say so on every check.
+    warnings.push_back(fmt::format(
+        "two-hand '{}' starts the cycle, but releasing a hand does not hold {}: those motions go on without the "
+        "hands (release_holds); make sure none of them is hazardous",
+        name(c.two_hand[i].name), guard_text(c, free_running)));
+  }
+  return warnings;
 }
 
 }  // namespace spoolstep::machine_file

@@ -456,7 +456,7 @@ TEST(Determinism, SameInputsSameOutputsBitForBit) {
 TEST(Config, InvalidConfigurationHoldsEverythingOff) {
   MachineConfig c = make_test_machine();
   c.functions[kPress].prop_retract = kPressYa;  // one channel, two owners
-  Rig rig(c);
+  Rig rig(c, 0, Rig::Expect::kInvalid);
   EXPECT_FALSE(rig.init_status_ok);
   rig.in.digital[kReset] = true;
   for (int i = 0; i < 20; ++i) EXPECT_TRUE(all_outputs_off(rig.scan()));
@@ -483,6 +483,67 @@ TEST(Config, ValidationCatchesBadReferences) {
     EXPECT_EQ(s.code(), k.code) << k.why << " (" << s.where() << " " << s.index() << ")";
   }
   EXPECT_TRUE(validate_config(make_test_machine(true)).is_ok());
+}
+
+// Soft commands act only where the machine file enables them; a refused one
+// is logged once when it is given (the old core OR-ed every soft command in).
+TEST(SoftCommands, ACommandTheFileDoesNotEnableIsRefusedAndLogged) {
+  MachineConfig c = make_test_machine();
+  c.operator_panel.soft_commands = soft_command_bit(SoftCommand::kPumpStart);  // no jog
+  Rig rig(c);
+  rig.arm(false);
+  rig.in.digital[kPressUp] = false;
+  rig.in.commands.jog[kPress] = Direction::kExtend;
+  rig.run_ms(200);
+  EXPECT_EQ(rig.out.prop[kPressYa].value, 0.0f) << "a soft jog the file does not enable moved the ram";
+  int refusals = 0;
+  for (std::uint32_t i = 0; i < rig.diag().events.size(); ++i) {
+    const Event& e = rig.diag().events.at(i);
+    if (e.code == EventCode::kSoftCommandRefused) {
+      ++refusals;
+      EXPECT_EQ(e.subject, static_cast<std::uint8_t>(SoftCommand::kJog));
+    }
+  }
+  EXPECT_EQ(refusals, 1) << "logged once while held, not every scan";
+  rig.in.digital[kJogClampExt] = true;  // the physical jog still works
+  rig.run_ms(5);
+  EXPECT_TRUE(rig.out.coils[kClampY1]);
+}
+
+TEST(SoftCommands, AnEnabledCommandActsLikeItsPanelInput) {
+  MachineConfig c = make_test_machine();
+  c.operator_panel.soft_commands = soft_command_bit(SoftCommand::kReset);
+  Rig rig(c);
+  rig.scan();
+  rig.in.commands.reset = true;
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kManual);
+}
+
+// A soft command never replaces a control the file requires from a
+// physical device: a two-hand start, a mode selector.
+TEST(SoftCommands, ValidationRefusesSoftCommandsThatReplaceAPhysicalControl) {
+  ConfigBuilder b;
+  b.c = make_test_machine();
+  b.c.operator_panel.cycle_start = b.op(ConditionOp::kTwoHandHeld, 0, 0, "two_hand main");
+  b.c.operator_panel.soft_commands = soft_command_bit(SoftCommand::kCycleStart);
+  EXPECT_FALSE(validate_config(b.c).is_ok()) << "a soft cycle start replaced the two-hand start";
+  MachineConfig c = make_test_machine();  // cycle start is a push button: a soft start may be enabled
+  c.operator_panel.soft_commands = soft_command_bit(SoftCommand::kCycleStart);
+  EXPECT_TRUE(validate_config(c).is_ok());
+  c.operator_panel.soft_commands = soft_command_bit(SoftCommand::kSelectAuto);
+  EXPECT_FALSE(validate_config(c).is_ok()) << "a soft select_auto overrode the key switch";
+  c.operator_panel.auto_mode = kNoCondition;
+  EXPECT_TRUE(validate_config(c).is_ok()) << "no selector: the mode may come from the HMI";
+  c.operator_panel.soft_commands = 1u << kSoftCommandCount;
+  EXPECT_FALSE(validate_config(c).is_ok()) << "a bit outside the table";
+}
+
+TEST(SoftCommands, TheTableNamesEveryCommandOnceInEnumOrder) {
+  for (std::size_t i = 0; i < kSoftCommandCount; ++i) {
+    EXPECT_EQ(static_cast<std::size_t>(kSoftCommandTable[i].command), i) << kSoftCommandTable[i].name;
+    for (std::size_t k = 0; k < i; ++k) EXPECT_STRNE(kSoftCommandTable[i].name, kSoftCommandTable[k].name);
+  }
 }
 
 }  // namespace

@@ -82,8 +82,8 @@ TEST(Hardening, SteppedChainRampChangeDrivesCurrentAboveMax) {
   rig.in.digital[kPressDown] = false;
   float peak = 0.0f;
   rig.run_ms(400, [&] { peak = std::max(peak, rig.out.prop[kPressYa].value); });
-  printf("step %d state %d peak %g cmd %g\n", rig.diag().active_step, (int)rig.diag().state, peak, rig.diag().functions[kPress].command);
-  EXPECT_LE(peak, 800.0f) << "current above max_ma";
+  EXPECT_LE(peak, 800.0f) << "current above max_ma (step " << int{rig.diag().active_step} << ", command "
+                           << rig.diag().functions[kPress].command << ")";
 }
 
 // a frozen time source: releasing a proportional jog no longer stops.
@@ -171,15 +171,19 @@ TEST(Hardening, ValidateRejectsUnknownStopCategories) {
   EXPECT_FALSE(validate_config(c).is_ok());
 }
 
+// a stop category corrupted in memory after validation (a bit flip) is read
+// as category 0: the e-stop still removes the pump's power.
 TEST(Hardening, EstopWithCorruptCategoryStillRemovesPower) {
-  MachineConfig c = make_test_machine(true);
-  c.operator_panel.estop_category = static_cast<StopCategory>(3);
-  Rig rig(c);
+  Rig rig(make_test_machine(true));
+  ASSERT_TRUE(rig.init_status_ok);
   rig.arm(false);
-  rig.in.commands.pump_start = true; rig.scan(); rig.in.commands.pump_start = false;
+  rig.start_pump();
   rig.run_ms(1100);
+  ASSERT_TRUE(rig.out.coils[kPumpMotor]);
+  rig.bound_config().operator_panel.estop_category = static_cast<StopCategory>(3);
   rig.in.digital[kEstopOk] = false;
-  rig.run_ms(50);
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kFaulted) << "a corrupt category is not a controlled stop";
   EXPECT_FALSE(rig.out.coils[kPumpMotor]) << "pump still running after the e-stop";
 }
 
@@ -205,10 +209,10 @@ TEST(Hardening, OverflowedFaultTableCanBeResetOnceCausesAreGone) {
   EXPECT_EQ(rig.diag().state, MachineState::kManual) << "only a power cycle recovers";
 }
 
-// watchdog off (the default) and one long scan: the ramp jumps.
+// one long scan: the ramp jumps (the watchdog faults the scan, and the ramp
+// integrates no more than the watchdog interval on the way to the stop).
 TEST(Hardening, LongScanDoesNotSkipTheRamp) {
   MachineConfig c = make_test_machine();
-  c.safety.watchdog_us = 0;  // SafetyConfig default, accepted by validate_config
   Rig rig(c);
   rig.arm(false);
   rig.in.digital[kPressUp] = false;
@@ -218,6 +222,7 @@ TEST(Hardening, LongScanDoesNotSkipTheRamp) {
   rig.scan(500000);  // one late scan (flash write, debugger, ISR storm)
   EXPECT_LT(rig.out.prop[kPressYa].value - first, 0.2f * 500.0f * 0.05f + 1.0f)
       << "jumped to full jog current in one scan";
+  c.safety.watchdog_us = 0;  // the SafetyConfig default
   EXPECT_FALSE(validate_config(c).is_ok()) << "a configuration without a scan watchdog";
 }
 
@@ -245,25 +250,28 @@ TEST(Hardening, ValidateRejectsUnknownDirection) {
   MachineConfig c = make_test_machine();
   c.steps[kClampStep].actions[0].direction = static_cast<Direction>(3);
   EXPECT_FALSE(validate_config(c).is_ok());
-  Rig rig(c);
-  rig.arm(true);
-  rig.press(kStart);
-  rig.run_ms(10);
-  c.operator_panel.estop_category = StopCategory::kCat1;
-  rig.in.digital[kGuardClosed] = true;
-  rig.in.commands.jog[kPress] = Direction::kNone;
 }
+
+// a category 1 emergency stop while the chain drives both valves must end
+// in kFaulted (power removed), never stay in kStopping.
 TEST(Hardening, StoppingAlwaysCompletes) {
   MachineConfig c = make_test_machine();
   c.operator_panel.estop_category = StopCategory::kCat1;
-  c.steps[kClampStep].actions[0].direction = static_cast<Direction>(3);
   Rig rig(c);
+  ASSERT_TRUE(rig.init_status_ok);
   rig.arm(true);
-  rig.press(kStart);
-  rig.run_ms(10);
+  rig.start_cycle_to_press_step();
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(100);
+  ASSERT_EQ(rig.diag().active_step, kPressStep);
+  ASSERT_GT(rig.out.prop[kPressYa].value, 0.0f) << "the ram must be moving when the e-stop comes";
+  ASSERT_TRUE(rig.out.coils[kClampY1]);
   rig.in.digital[kEstopOk] = false;
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kStopping) << "category 1 ramps down first";
   rig.run_ms(1000);
   EXPECT_EQ(rig.diag().state, MachineState::kFaulted) << "stuck in kStopping";
+  EXPECT_TRUE(all_outputs_off(rig.out));
 }
 
 // end of travel is not watched while a function ramps down.
@@ -304,7 +312,6 @@ TEST(Hardening, EndOfCycleRequestSurvivesAHold) {
   rig.run_ms(100);
   rig.in.digital[kClampClosed] = false;
   rig.run_ms(20);
-  printf("cycles %u step %d clampY1 %d\n", rig.diag().completed_cycles, rig.diag().active_step, rig.out.coils[kClampY1]);
   EXPECT_EQ(rig.diag().state, MachineState::kAutoIdle) << "a new cycle began although end of cycle was requested";
   EXPECT_FALSE(rig.out.coils[kClampY1]);
 }
@@ -360,8 +367,12 @@ TEST(Hardening, SCurveAlwaysSettles) {
           int n = 0;
           const int limit = static_cast<int>((accel + jerk) * 1e-6f / dt) * 4 + 100;
           while (s.value != target && n < limit) { advance_ramp(s, target, l, l, dt); ++n; }
-          if (s.value != target) { ++bad; printf("no settle accel %u jerk %u dt %g target %g value %.9g rate %g\n", accel, jerk, dt, target, s.value, s.rate); }
-          if (!std::isfinite(s.value)) printf("non-finite\n");
+          EXPECT_TRUE(std::isfinite(s.value)) << "accel " << accel << " jerk " << jerk << " dt " << dt;
+          if (s.value != target) {
+            ++bad;
+            ADD_FAILURE() << "no settle: accel " << accel << " jerk " << jerk << " dt " << dt << " target "
+                          << target << " value " << s.value << " rate " << s.rate;
+          }
         }
       }
     }

@@ -6,7 +6,10 @@
 #include <string>
 #include <vector>
 
+#include <gtest/gtest.h>
+
 #include "spoolstep/core/controller.hpp"
+#include "spoolstep/core/soft_command.hpp"
 
 namespace spoolstep::core::testing {
 
@@ -116,6 +119,12 @@ inline MachineConfig make_test_machine(bool with_power_unit = false) {
   c.operator_panel.reset = reset;
   c.operator_panel.auto_mode = auto_sel;
   c.operator_panel.cycle_start = start;
+  // The soft commands the tests give; reset, cycle start and select_auto
+  // come from the panel's inputs.
+  for (SoftCommand command : {SoftCommand::kCycleStop, SoftCommand::kContinuous, SoftCommand::kPumpStart,
+                              SoftCommand::kPumpStop, SoftCommand::kStop, SoftCommand::kJog}) {
+    c.operator_panel.soft_commands = static_cast<std::uint16_t>(c.operator_panel.soft_commands | soft_command_bit(command));
+  }
 
   c.two_hand[0] = TwoHandConfig{name("main"), kThLeft, kThRight, 500000};
   c.two_hand_count = 1;
@@ -199,10 +208,23 @@ inline MachineConfig make_test_machine(bool with_power_unit = false) {
 }
 
 // Scans a controller at a fixed period and keeps the inputs between calls.
+// A configuration the core rejects fails the test here: a controller that
+// sits in kConfigInvalid from its first scan asserts nothing of what a test
+// names (two hardening tests once passed that way).
 class Rig {
  public:
-  explicit Rig(const MachineConfig& config, std::uint32_t start_us = 0) : config_(config), now_(start_us) {
-    init_status_ok = controller.init(config_).is_ok();
+  enum class Expect { kValid, kInvalid };  // kInvalid: a test of the rejected-configuration path
+  explicit Rig(const MachineConfig& config, std::uint32_t start_us = 0, Expect expect = Expect::kValid)
+      : config_(config), now_(start_us) {
+    const Status status = controller.init(config_);
+    init_status_ok = status.is_ok();
+    if (expect == Expect::kValid) {
+      EXPECT_TRUE(init_status_ok) << "the test's configuration fails validate_config: "
+                                  << to_string(status.code()) << " in " << status.where() << " row "
+                                  << status.index();
+    } else {
+      EXPECT_FALSE(init_status_ok) << "the test's configuration was meant to be rejected";
+    }
     in.digital[kEstopOk] = true;
     in.digital[kGuardClosed] = true;
     in.digital[kPressUp] = true;
@@ -272,6 +294,9 @@ class Rig {
   }
   const Diagnostics& diag() const { return controller.diagnostics(); }
   std::uint32_t now() const { return now_; }
+  // The configuration the controller is bound to, for tests that corrupt a
+  // validated configuration in memory (a bit flip after init).
+  MachineConfig& bound_config() { return config_; }
 
   Controller controller;
   InputImage in{};

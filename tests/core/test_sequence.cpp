@@ -256,5 +256,90 @@ TEST(OperatorStop, StopsAJogThatThenNeedsAFreshPress) {
   EXPECT_TRUE(rig.out.coils[kClampY1]);
 }
 
+// The test machine with its cycle started by the two-hand device instead of
+// the start button; `release_holds` as the machine file would set it.
+MachineConfig two_hand_start_machine(std::uint32_t release_holds = kAllMotionBits) {
+  ConfigBuilder b;
+  b.c = make_test_machine();
+  const auto both_hands = b.op(ConditionOp::kTwoHandHeld, 0, 0, "two_hand main");
+  b.c.operator_panel.cycle_start = both_hands;
+  b.c.two_hand[0].release_holds = release_holds;
+  return b.c;
+}
+
+void press_both_hands(Rig& rig, bool held) {
+  rig.in.digital[kThLeft] = held;
+  rig.in.digital[kThRight] = held;
+}
+
+// ISO 13851 type III (from memory, clause not confirmed): continuous
+// actuation for the hazardous phase. A two-hand start holds the motion it
+// started when either hand comes off; the old core let the cycle run on.
+TEST(Sequence, ReleasingOneHandOfATwoHandStartHoldsTheCycle) {
+  Rig rig(two_hand_start_machine());
+  rig.arm(true);
+  press_both_hands(rig, true);
+  rig.scan();
+  ASSERT_EQ(rig.diag().state, MachineState::kAutoCycle);
+  rig.in.digital[kClampClosed] = true;
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(100);
+  ASSERT_EQ(rig.diag().active_step, kPressStep);
+  ASSERT_GT(rig.out.prop[kPressYa].value, 0.0f);
+  rig.in.digital[kThRight] = false;  // one hand comes off
+  rig.scan();
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld) << "the ram goes on without the hands";
+  rig.run_ms(100);  // the quick stop of the press valve is 50 ms
+  EXPECT_TRUE(no_valve_driven(rig.out));
+  EXPECT_EQ(rig.diag().active_step, kPressStep) << "the held cycle keeps its step";
+  rig.in.digital[kThRight] = true;  // the hand comes back alone: not a new actuation
+  rig.run_ms(10);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoHeld) << "re-grasping one hand resumed the cycle";
+  press_both_hands(rig, false);
+  rig.scan();
+  press_both_hands(rig, true);  // a new two-hand actuation resumes
+  rig.run_ms(10);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
+  EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f);
+  bool saw_release = false;
+  for (std::uint32_t i = 0; i < rig.diag().events.size(); ++i) {
+    saw_release = saw_release || rig.diag().events.at(i).code == EventCode::kTwoHandReleased;
+  }
+  EXPECT_TRUE(saw_release) << "the release is not in the event log";
+}
+
+// A cycle whose return stroke is not hazardous names the hazardous motion
+// only (release_holds); the other motions go on without the hands.
+TEST(Sequence, TwoHandReleaseHoldsOnlyTheMotionsTheFileNames) {
+  Rig rig(two_hand_start_machine(motion_bit(kPress, Direction::kExtend)));
+  rig.arm(true);
+  press_both_hands(rig, true);
+  rig.scan();
+  rig.in.digital[kClampClosed] = true;
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(100);
+  rig.in.digital[kPressDown] = true;
+  rig.set_ma(kPressPressure, kMaAt120Bar);
+  rig.run_ms(600);
+  ASSERT_EQ(rig.diag().active_step, kRetract);
+  press_both_hands(rig, false);  // hands off during the return stroke
+  rig.run_ms(100);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle) << "the return stroke was held";
+  EXPECT_GT(rig.out.prop[kPressYb].value, 0.0f) << "the ram stopped on its way up";
+}
+
+// A two-hand device that is not part of the cycle start holds nothing.
+TEST(Sequence, TwoHandDeviceThatDidNotStartTheCycleHoldsNothing) {
+  Rig rig(make_test_machine());  // cycle start is the start button
+  rig.arm(true);
+  press_both_hands(rig, true);
+  rig.scan();
+  rig.start_cycle_to_press_step();
+  press_both_hands(rig, false);
+  rig.in.digital[kPressUp] = false;
+  rig.run_ms(50);
+  EXPECT_EQ(rig.diag().state, MachineState::kAutoCycle);
+}
+
 }  // namespace
 }  // namespace spoolstep::core

@@ -8,6 +8,7 @@
 #include <gtest/gtest.h>
 
 #include "spoolstep/machine_file/machine_file.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
 
 namespace spoolstep::machine_file {
@@ -169,6 +170,54 @@ TEST(Loading, AllGuardCoversEveryMotionAndThePump) {
   const auto& c = result.machine->config;
   EXPECT_EQ(c.interlocks[0].guards, 0b1111u | core::kPowerUnitGuardBit);
   EXPECT_EQ(c.interlocks[1].guards, core::motion_bit(0, core::Direction::kExtend));
+}
+
+TEST(Loading, TwoHandReleaseHoldsEveryMotionUnlessTheFileNamesFewer) {
+  json doc = minimal();
+  doc["operator"]["cycle_start"] = {{"two_hand", "main"}};
+  auto result = load_machine_text(doc.dump(), "two_hand_default.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  EXPECT_EQ(result.machine->config.two_hand[0].release_holds, core::kAllMotionBits);
+  EXPECT_TRUE(configuration_warnings(result.machine->config).empty()) << "the safe default needs no warning";
+
+  doc["two_hand"][0]["release_holds"] = {"lift.extend"};
+  result = load_machine_text(doc.dump(), "two_hand_opt_out.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  const auto& c = result.machine->config;
+  EXPECT_EQ(c.two_hand[0].release_holds, core::motion_bit(0, core::Direction::kExtend));
+  const auto warnings = configuration_warnings(c);
+  ASSERT_EQ(warnings.size(), 1u);
+  EXPECT_NE(warnings[0].find("does not hold lift.retract"), std::string::npos) << warnings[0];
+
+  doc["two_hand"][0]["release_holds"] = {"pump"};
+  result = load_machine_text(doc.dump(), "two_hand_pump.json");
+  EXPECT_TRUE(has_error(result, "/two_hand/0/release_holds/0", "not a motion")) << dump_errors(result);
+}
+
+TEST(Loading, SoftCommandsAreNoneByDefaultAndNamedFromTheCoreTable) {
+  json doc = minimal();
+  auto result = load_machine_text(doc.dump(), "soft_default.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  EXPECT_EQ(result.machine->config.operator_panel.soft_commands, 0u);
+  doc["operator"]["soft_commands"] = {"pump_start", "jog"};
+  result = load_machine_text(doc.dump(), "soft_some.json");
+  ASSERT_TRUE(result.ok()) << dump_errors(result);
+  EXPECT_EQ(result.machine->config.operator_panel.soft_commands,
+            core::soft_command_bit(core::SoftCommand::kPumpStart) | core::soft_command_bit(core::SoftCommand::kJog));
+  doc["operator"]["soft_commands"] = {"cycle_strat"};
+  result = load_machine_text(doc.dump(), "soft_typo.json");
+  EXPECT_TRUE(has_error(result, "/operator/soft_commands/0", "unknown soft command 'cycle_strat'")) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/operator/soft_commands/0", "cycle_start")) << "the hint lists the commands";
+}
+
+TEST(Loading, SoftCommandsNeverReplaceAPhysicalControl) {
+  json doc = minimal();
+  doc["operator"]["cycle_start"] = {{"two_hand", "main"}};
+  doc["operator"]["auto_mode"] = "guard_closed_sw";
+  doc["operator"]["soft_commands"] = {"cycle_start", "select_auto"};
+  const auto result = load_machine_text(doc.dump(), "soft_replaces.json");
+  EXPECT_TRUE(has_error(result, "/operator/soft_commands/0", "two-hand start")) << dump_errors(result);
+  EXPECT_TRUE(has_error(result, "/operator/soft_commands/1", "mode selector")) << dump_errors(result);
 }
 
 TEST(Loading, NameLookupsFindDeclaredNamesOnly) {

@@ -82,6 +82,9 @@ int run_check(const CheckOptions& options) {
     std::cout << fmt::format("note: analog input '{}' has no sensor in the plant section: on the bench it reads "
                              "what a scenario sets, else the bottom of its range\n", name);
   }
+  for (const std::string& warning : machine_file::configuration_warnings(c)) {
+    std::cout << "warning: " << warning << "\n";
+  }
   if (options.summary) std::cout << "\n" << machine_file::summarize(c);
   return kExitOk;
 }

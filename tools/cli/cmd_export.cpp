@@ -187,8 +187,8 @@ void walk(Emitter& e, const std::string& p, const T& value) {
         [&](const char* name, auto member) {
           const auto& field = value.*member;
           if constexpr (std::is_same_v<std::decay_t<decltype(field)>, std::uint32_t>) {
-            // Guard masks read best in hex: one bit per motion.
-            if (std::string_view(name) == "guards") {
+            // Motion masks read best in hex: one bit per motion.
+            if (std::string_view(name) == "guards" || std::string_view(name) == "release_holds") {
               e.field(join_path(p, name), fmt::format("0x{:08x}u", field));
               return;
             }

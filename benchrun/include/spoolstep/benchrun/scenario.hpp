@@ -13,6 +13,7 @@
 #include <nlohmann/json.hpp>
 
 #include "spoolstep/core/config.hpp"
+#include "spoolstep/core/soft_command.hpp"
 
 namespace spoolstep::benchrun {
 
@@ -33,7 +34,7 @@ struct TimelineEvent {
   Kind kind = Kind::kSetDigital;
   std::uint8_t index = 0;
   double value = 0.0;
-  std::string command;        ///< kCommand: reset, cycle_start, cycle_stop, select_auto, continuous, pump_start, pump_stop
+  core::SoftCommand command = core::SoftCommand::kReset;  ///< kCommand: an on/off soft command (core::kSoftCommandTable)
   core::Direction direction = core::Direction::kNone;
   nlohmann::json plant_fault;
   std::string json_path;      ///< where it came from, for run-time errors

@@ -28,6 +28,7 @@ inline constexpr std::size_t kMaxNameLength = 23;  ///< characters, without the 
 /// motions plus one bit for the power unit, so the mask must fit 32 bits.
 inline constexpr std::size_t kMotionCount = kMaxFunctions * 2;
 inline constexpr std::uint32_t kPowerUnitGuardBit = 1u << kMotionCount;
+inline constexpr std::uint32_t kAllMotionBits = kPowerUnitGuardBit - 1u;  ///< every motion, not the power unit
 static_assert(kMotionCount + 1 <= 32, "guard mask must fit in 32 bits");
 static_assert(kMaxConditionNodes < 0xFFFFu, "condition indices are 16-bit with 0xFFFF as 'none'");
 static_assert(kMaxDigitalInputs < 0xFFu && kMaxCoils < 0xFFu && kMaxPropOutputs < 0xFFu,

@@ -146,6 +146,13 @@ struct TwoHandConfig {
   std::uint8_t left_input = kNoIndex8;
   std::uint8_t right_input = kNoIndex8;
   std::uint32_t max_sync_us = 500000;
+  /// Motions a cycle started with this device holds (kAutoHeld) when either
+  /// hand comes off. ISO 13851 type III asks for continuous actuation during
+  /// the hazardous phase (from memory, clause not confirmed), so the default
+  /// is every motion of the cycle. A cycle whose later motions are not
+  /// hazardous (the return stroke of an opened tool) names the hazardous ones
+  /// only; `spoolstep check` warns about each motion of the cycle left out.
+  std::uint32_t release_holds = kAllMotionBits;
 };
 
 enum class AnalogSignal : std::uint8_t {
@@ -192,6 +199,13 @@ struct OperatorConfig {
   /// controlled, power kept): an automatic cycle holds, jogs stop, and no
   /// start is accepted while it is true. Overrides every start.
   std::uint16_t stop = kNoCondition;
+  /// Bit per SoftCommand (soft_command.hpp) the core accepts from
+  /// OperatorCommands. Default none: a command channel acts only where the
+  /// file says so, and never in place of a control the file requires from a
+  /// physical device (validate_config refuses a soft cycle start where a
+  /// two-hand device starts the cycle, and a soft select_auto where a
+  /// selector sets the mode).
+  std::uint16_t soft_commands = 0;
 };
 
 struct StepAction {

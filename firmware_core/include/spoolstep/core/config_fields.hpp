@@ -82,6 +82,7 @@ template <typename V> constexpr void each(V&& v, Of<TwoHandConfig>) {
   v("left_input", &TwoHandConfig::left_input);
   v("right_input", &TwoHandConfig::right_input);
   v("max_sync_us", &TwoHandConfig::max_sync_us);
+  v("release_holds", &TwoHandConfig::release_holds);
 }
 template <typename V> constexpr void each(V&& v, Of<AnalogInputConfig>) {
   v("name", &AnalogInputConfig::name);
@@ -116,6 +117,7 @@ template <typename V> constexpr void each(V&& v, Of<OperatorConfig>) {
   v("auto_mode", &O::auto_mode);
   v("continuous", &O::continuous);
   v("stop", &O::stop);
+  v("soft_commands", &O::soft_commands);
 }
 template <typename V> constexpr void each(V&& v, Of<StepAction>) {
   v("function", &StepAction::function);

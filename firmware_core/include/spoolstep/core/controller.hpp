@@ -17,6 +17,10 @@ namespace spoolstep::core {
 /// Returns the first problem found, or ok.
 Status validate_config(const MachineConfig& config);
 
+/// Bit per two-hand device that `condition` reads, directly or through the
+/// nodes below it; 0 for kNoCondition. Needs nodes that passed validation.
+std::uint8_t two_hand_devices_read_by(const MachineConfig& config, std::uint16_t condition);
+
 class Controller {
  public:
   /// Binds the controller to `config` (which must outlive it) and returns to
@@ -62,16 +66,18 @@ class Controller {
   bool edge(bool value, bool& previous) const;
   void apply_fault_events(std::uint32_t now_us);
   bool initial_step_can_start() const;
+  std::uint16_t initial_step_unmet() const;
   void compute_reach();
   void check_inputs(const InputImage& inputs, std::uint32_t now_us);
+  void accept_soft_commands(const OperatorCommands& requested, std::uint32_t now_us);
   void raise_fault(FaultCode code, std::uint8_t subject, std::uint16_t detail,
                    StopCategory category, std::uint32_t now_us);
   void update_two_hand(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
   void update_interlocks(std::uint32_t now_us);
-  void update_machine_state(const InputImage& inputs, std::uint32_t now_us);
+  void update_machine_state(std::uint32_t now_us);
   void apply_event(MachineEvent event, std::uint32_t now_us);
   void run_sequence(std::uint32_t dt_us, std::uint32_t now_us);
-  void update_power_unit(const InputImage& inputs, std::uint32_t dt_us, std::uint32_t now_us);
+  void update_power_unit(std::uint32_t dt_us, std::uint32_t now_us);
   void decide_demands(const InputImage& inputs, std::uint32_t now_us);
   void drive_function(std::uint8_t index, std::uint32_t dt_us);
   void write_outputs(OutputImage& outputs) const;
@@ -93,6 +99,10 @@ class Controller {
   bool prev_reset_ = false;
   bool prev_cycle_start_ = false;
   bool prev_pump_start_ = false;
+  std::uint8_t cycle_start_devices_ = 0;  // two-hand devices the cycle start condition reads
+  std::uint8_t holding_devices_ = 0;      // of those, the ones held when the running cycle was started
+  OperatorCommands commands_{};           // the soft commands of this scan the file enables
+  std::uint16_t refused_commands_ = 0;    // bit per SoftCommand refused in the previous scan
   std::uint32_t blocked_motions_ = 0;    // motions held off by a permissive
   std::uint32_t immediate_motions_ = 0;  // of those, the ones whose permissive stops in category 0
   std::uint32_t pump_elapsed_us_ = 0;

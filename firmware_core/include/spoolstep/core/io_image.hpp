@@ -15,9 +15,10 @@ struct AnalogSample {
   std::uint32_t age_us = 0; ///< time since the I/O layer last refreshed this value
 };
 
-/// Soft operator commands from an HMI or a test script. Each is OR-ed with the
-/// machine file's condition for the same signal; the emergency stop is not
-/// here on purpose: it must come from a hardwired input.
+/// Soft operator commands from an HMI or a test script. Each one the machine
+/// file enables (OperatorConfig::soft_commands) is OR-ed with the file's
+/// condition for the same signal; the others are refused and logged. The
+/// emergency stop is not here on purpose: it must come from a hardwired input.
 struct OperatorCommands {
   bool reset = false;
   bool cycle_start = false;
@@ -103,7 +104,16 @@ enum class EventCode : std::uint8_t {
   kEndOfTravel,        ///< subject: function, detail: direction
   kPowerUnitState,     ///< subject: PowerUnitState
   kTwoHandBlocked,     ///< subject: device; the second hand came too late
-  kStartRefused,       ///< cycle start (or a continuous repeat) while the initial step's transition does not hold
+  kStartRefused,       ///< subject: StartRefusal, detail: the first unmet node of the initial step's transition
+  kTwoHandReleased,    ///< subject: device; a hand came off while the cycle it started ran (the cycle holds)
+  kSoftCommandRefused, ///< subject: SoftCommand the machine file does not enable (logged when it is first given)
+};
+
+/// Why a cycle start was refused (subject of kStartRefused).
+enum class StartRefusal : std::uint8_t {
+  kNotReady = 0,      ///< the initial step's transition does not hold (detail: its first unmet node)
+  kStopPressed = 1,   ///< the operator stop is pressed: it overrides every start
+  kRepeatNotReady = 2,  ///< a continuous repeat whose start conditions do not hold ended the cycle
 };
 
 struct Event {

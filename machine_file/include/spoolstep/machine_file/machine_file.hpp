@@ -61,6 +61,11 @@ LoadResult load_machine_text(const std::string& text, const std::string& display
 /// sequence steps and transitions, conditions written out readably.
 std::string summarize(const core::MachineConfig& config);
 
+/// Warnings about a loaded configuration that is valid but weakens a safe
+/// default (e.g. a two-hand start whose release does not hold every motion of
+/// the cycle); one sentence each, empty when there is nothing to say.
+std::vector<std::string> configuration_warnings(const core::MachineConfig& config);
+
 /// Writes the Markdown parameter reference generated from the parameter
 /// table (see parameters.hpp).
 void write_parameter_reference(std::ostream& out);

@@ -27,6 +27,7 @@ enum class ParamType {
   kCondition,    ///< a condition (see config/README.md)
   kRange,        ///< [low, high], two numbers
   kGuardList,    ///< list of guard names
+  kSoftCommandList,  ///< list of soft command names (core::kSoftCommandTable)
 };
 
 struct Parameter {
