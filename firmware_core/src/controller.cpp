@@ -266,7 +266,7 @@ void Controller::update_two_hand(const InputImage& in, std::uint32_t dt_us, std:
                                     in.digital[t.right_input], dt_us, t.max_sync_us, late);
     if (late) log(now_us, EventCode::kTwoHandBlocked, i, 0);
     const bool held = two_hand_[i].phase == TwoHandPhase::kHeld;
-    if (diag_.two_hand_held[i] && !held && ((holding_devices_ >> i) & 1u) != 0 &&
+    if (diag_.two_hand_held[i] && !held && ((static_cast<unsigned>(holding_devices_) >> i) & 1u) != 0 &&
         chain_running(diag_.state)) {
       log(now_us, EventCode::kTwoHandReleased, i, 0);
     }
@@ -441,7 +441,7 @@ void Controller::update_interlocks(std::uint32_t now_us) {
   // for the hazardous phase (from memory). Releasing either hand holds the
   // cycle; only a new two-hand actuation (a new cycle start) resumes it.
   for (std::uint8_t i = 0; i < c.two_hand_count; ++i) {
-    if (((holding_devices_ >> i) & 1u) != 0 && !diag_.two_hand_held[i]) {
+    if (((static_cast<unsigned>(holding_devices_) >> i) & 1u) != 0 && !diag_.two_hand_held[i]) {
       blocked_motions_ |= c.two_hand[i].release_holds;
     }
   }
