@@ -88,8 +88,8 @@ io::PortStatus PlantAdapter::do_advance(std::uint64_t dt_us) {
     }
     return io::PortStatus::failed(
         io::PortError::kModelFailed,
-        fmt::format("at {:.6f} s: the plant state is not finite ({} reads {}); the model cannot go on", t_s, which,
-                    "NaN or infinity"));
+        fmt::format("at {:.6f} s: the plant state is not finite ({} reads NaN or infinity); the model cannot go on",
+                    t_s, which));
   }
   return io::PortStatus::ok();
 }

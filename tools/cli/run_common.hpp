@@ -11,6 +11,7 @@
 #include "spoolstep/benchrun/scenario.hpp"
 #include "spoolstep/core/controller.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
+#include "spoolstep/runtime/scan_loop.hpp"
 
 namespace spoolstep::cli {
 
@@ -26,9 +27,8 @@ inline std::unique_ptr<machine_file::LoadedMachine> load_machine_or_report(const
   // core would hold in its safe state from the first scan.
   const core::Status status = core::validate_config(result.machine->config);
   if (!status.is_ok()) {
-    std::cerr << "spoolstep " << command << ": " << path << ": the control core rejects this configuration ("
-              << core::to_string(status.code()) << " in " << status.where() << " row " << status.index()
-              << "). Fix the machine file; 'spoolstep check' names the field when it can.\n";
+    std::cerr << "spoolstep " << command << ": " << path << ": " << runtime::core_rejection_text(status)
+              << ". Fix the machine file; 'spoolstep check' names the field when it can.\n";
     return nullptr;
   }
   return std::move(result.machine);
