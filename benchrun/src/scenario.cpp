@@ -13,14 +13,17 @@
 #include "spoolstep/benchrun/runner.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
 #include "spoolstep/core/soft_command.hpp"
-#include "spoolstep/machine_file/json_text.hpp"
+#include "spoolstep/jsondoc/reader.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
 namespace {
 
 using json = nlohmann::json;
+using jsondoc::did_you_mean;
+using jsondoc::printable;
 using machine_file::name_view;
+using machine_file::NamedKind;
 
 // The on/off soft commands ("jog" is its own timeline entry), named as in
 // the core's kSoftCommandTable.
@@ -29,6 +32,14 @@ std::optional<core::SoftCommand> on_off_command(const std::string& name) {
     if (row.command != core::SoftCommand::kJog && name == row.name) return row.command;
   }
   return std::nullopt;
+}
+
+std::vector<std::string> on_off_command_names() {
+  std::vector<std::string> names;
+  for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
+    if (row.command != core::SoftCommand::kJog) names.emplace_back(row.name);
+  }
+  return names;
 }
 
 std::string on_off_command_list() {
@@ -59,8 +70,13 @@ class Reader {
       for (const char* a : allowed) known = known || key == a;
       if (!known) {
         std::string list;
-        for (const char* a : allowed) list += (list.empty() ? "" : ", ") + std::string(a);
-        error(path + "/" + key, fmt::format("unknown field '{}'", key), "Known fields here: " + list + ".");
+        std::vector<std::string> fields;
+        for (const char* a : allowed) {
+          list += (list.empty() ? "" : ", ") + std::string(a);
+          fields.emplace_back(a);
+        }
+        error(path + "/" + jsondoc::escape_token(key), fmt::format("unknown field '{}'", printable(key)),
+              did_you_mean(key, fields, "Known fields here: " + list + "."));
       }
     }
     return true;
@@ -98,14 +114,19 @@ class Reader {
   }
 
   template <typename Find>
-  std::optional<std::uint8_t> resolve(const std::string& name, const std::string& path, const char* what, Find find) {
+  std::optional<std::uint8_t> resolve(const std::string& name, const std::string& path, const char* what,
+                                      NamedKind kind, Find find) {
     const auto index = find(machine_, name);
-    if (!index) error(path, fmt::format("no {} named '{}' in the machine file", what, name), fmt::format("Use a {} the machine file declares.", what));
+    if (!index) {
+      error(path, fmt::format("no {} named '{}' in the machine file", what, printable(name)),
+            did_you_mean(name, machine_file::names_of(machine_, kind),
+                         fmt::format("Use a {} the machine file declares.", what)));
+    }
     return index;
   }
 
   std::optional<std::uint8_t> digital(const std::string& name, const std::string& path, bool settable) {
-    const auto index = resolve(name, path, "digital input", machine_file::find_digital_input);
+    const auto index = resolve(name, path, "digital input", NamedKind::kDigitalInput, machine_file::find_digital_input);
     if (index && settable && plant_ != nullptr && *index < plant_->plant_digital.size() && plant_->plant_digital[*index]) {
       error(path, fmt::format("digital input '{}' is driven by the plant model's sensor", name),
             "Change the plant instead (a plant fault), or remove the sensor wiring.");
@@ -115,7 +136,7 @@ class Reader {
   }
 
   std::optional<std::uint8_t> analog(const std::string& name, const std::string& path) {
-    const auto index = resolve(name, path, "analog input", machine_file::find_analog_input);
+    const auto index = resolve(name, path, "analog input", NamedKind::kAnalogInput, machine_file::find_analog_input);
     if (index && plant_ != nullptr && *index < plant_->plant_analog.size() && plant_->plant_analog[*index]) {
       error(path, fmt::format("analog input '{}' is driven by the plant model's sensor", name),
             "Inject a sensor fault on the plant instead.");
@@ -199,7 +220,7 @@ class Reader {
       if (!e["analog_healthy"].is_object()) error(p, "must be an object of analog input name to true/false", "Write {\"press_pressure\": false}.");
       else for (const auto& [name, v] : e["analog_healthy"].items()) {
         if (!v.is_boolean()) { error(p + "/" + name, "must be true or false", "Write true or false."); continue; }
-        if (const auto i = resolve(name, p + "/" + name, "analog input", machine_file::find_analog_input)) {
+        if (const auto i = resolve(name, p + "/" + name, "analog input", NamedKind::kAnalogInput, machine_file::find_analog_input)) {
           TimelineEvent ev; ev.kind = TimelineEvent::Kind::kAnalogHealth; ev.index = *i; ev.value = v.get<bool>() ? 1 : 0;
           add(ev, p + "/" + name);
         }
@@ -211,7 +232,11 @@ class Reader {
       if (!e["command"].is_object()) error(p, "must be an object of command name to true/false", "Write {\"cycle_stop\": true}.");
       else for (const auto& [name, v] : e["command"].items()) {
         const std::optional<core::SoftCommand> command = on_off_command(name);
-        if (!command) { error(p + "/" + name, fmt::format("unknown command '{}'", name), "Commands: " + on_off_command_list() + "."); continue; }
+        if (!command) {
+          error(p + "/" + jsondoc::escape_token(name), fmt::format("unknown command '{}'", printable(name)),
+                did_you_mean(name, on_off_command_names(), "Commands: " + on_off_command_list() + "."));
+          continue;
+        }
         if (!v.is_boolean()) { error(p + "/" + name, "must be true or false", "Commands are levels: true until set false."); continue; }
         TimelineEvent ev; ev.kind = TimelineEvent::Kind::kCommand; ev.command = *command; ev.value = v.get<bool>() ? 1 : 0;
         add(ev, p + "/" + name);
@@ -222,7 +247,7 @@ class Reader {
       const std::string p = path + "/jog";
       if (!e["jog"].is_object()) error(p, "must be an object of function name to extend/retract/none", "Write {\"press\": \"extend\"}.");
       else for (const auto& [name, v] : e["jog"].items()) {
-        const auto f = resolve(name, p + "/" + name, "function", machine_file::find_function);
+        const auto f = resolve(name, p + "/" + name, "function", NamedKind::kFunction, machine_file::find_function);
         const std::string d = v.is_string() ? v.get<std::string>() : "";
         if (d != "extend" && d != "retract" && d != "none") { error(p + "/" + name, "must be \"extend\", \"retract\" or \"none\"", "Jog is hold-to-run: set \"none\" to release."); continue; }
         if (!f) continue;
@@ -272,7 +297,7 @@ class Reader {
       if (std::find(signals.begin(), signals.end(), *s) == signals.end()) {
         std::string hint = "Signals are the trace's column names (see trace.csv), e.g. ";
         for (std::size_t k = 0; k < signals.size() && k < 6; ++k) hint += (k ? ", " : "") + signals[k];
-        error(path + "/signal", fmt::format("no signal named '{}'", *s), hint + ".");
+        error(path + "/signal", fmt::format("no signal named '{}'", printable(*s)), did_you_mean(*s, signals, hint + "."));
         return false;
       }
       x.signal = *s;
@@ -288,7 +313,7 @@ class Reader {
     if (*kind == "step_reached") {
       x.kind = Expectation::Kind::kStepReached;
       if (const auto s = text(e, path, "step", true)) {
-        if (const auto i = resolve(*s, path + "/step", "step", machine_file::find_step)) x.step = *i;
+        if (const auto i = resolve(*s, path + "/step", "step", NamedKind::kStep, machine_file::find_step)) x.step = *i;
       }
       x.before_s = number(e, path, "before_s", 0.0, 1e6, true).value_or(0.0);
     } else if (*kind == "state_at") {
@@ -298,7 +323,14 @@ class Reader {
         for (std::uint8_t k = 0; k < core::kMachineStateCount; ++k) {
           if (*s == state_name(k)) { x.state = k; found = true; }
         }
-        if (!found) error(path + "/state", fmt::format("unknown state '{}'", *s), "States: power_up, manual, auto_idle, auto_cycle, auto_end_cycle, auto_held, stopping, faulted.");
+        if (!found) {
+          std::vector<std::string> states;
+          for (std::uint8_t k = 0; k < core::kMachineStateCount; ++k) states.emplace_back(state_name(k));
+          std::string list;
+          for (const auto& name : states) list += (list.empty() ? "" : ", ") + name;
+          error(path + "/state", fmt::format("unknown state '{}'", printable(*s)),
+                did_you_mean(*s, states, "States: " + list + "."));
+        }
       }
       x.at_s = number(e, path, "at_s", 0.0, 1e6, true).value_or(0.0);
     } else if (*kind == "stays_within") {
@@ -328,8 +360,9 @@ class Reader {
       signal();
       range();
     } else {
-      error(path + "/kind", fmt::format("unknown expectation kind '{}'", *kind),
-            "Kinds: step_reached, state_at, stays_within, still_while_off, safe_within, final_within.");
+      error(path + "/kind", fmt::format("unknown expectation kind '{}'", printable(*kind)),
+            did_you_mean(*kind, {"step_reached", "state_at", "stays_within", "still_while_off", "safe_within", "final_within"},
+                         "Kinds: step_reached, state_at, stays_within, still_while_off, safe_within, final_within."));
       return;
     }
     out.push_back(std::move(x));
@@ -341,7 +374,7 @@ class Reader {
     if (!object(doc, "", {"format", "description", "duration_s", "initial", "timeline", "expect"})) return nullptr;
     const auto format = text(doc, "", "format", true);
     if (format && *format != kScenarioFormatTag)
-      error("/format", fmt::format("unsupported format '{}'", *format), fmt::format("This version reads \"{}\".", kScenarioFormatTag));
+      error("/format", fmt::format("unsupported format '{}'", printable(*format)), fmt::format("This version reads \"{}\".", kScenarioFormatTag));
     scenario->description = text(doc, "", "description", false).value_or("");
     const auto duration = number(doc, "", "duration_s", 0.001, 86400.0, true);
     scenario->duration_s = duration.value_or(0.0);
@@ -422,40 +455,21 @@ class Reader {
 
 }  // namespace
 
-std::string ScenarioError::to_string() const {
-  std::string out = file + ": ";
-  if (!json_path.empty()) out += json_path + ": ";
-  out += reason + ".";
-  if (!hint.empty()) out += " " + hint;
-  return out;
+const jsondoc::ReadLimits& scenario_limits() {
+  static const jsondoc::ReadLimits limits{kMaxScenarioBytes, kMaxScenarioArrayItems, 64, "scenario"};
+  return limits;
 }
 
-ScenarioLoad load_scenario_text(const std::string& text, const std::string& display_name,
-                                const core::MachineConfig& machine, const PlantFacts* plant) {
+namespace {
+
+ScenarioLoad load_document(jsondoc::ReadResult read, const std::string& display_name,
+                           const core::MachineConfig& machine, const PlantFacts* plant) {
   ScenarioLoad result;
-  // The same strict reading as machine files: comments allowed, duplicate
-  // keys and absurd nesting refused, syntax errors with line and column.
-  machine_file::ParsedJson parsed = machine_file::parse_json_text(text);
-  if (!parsed.syntax_error.empty()) {
-    result.errors.push_back(ScenarioError{display_name, "", "invalid JSON: " + parsed.syntax_error,
-                                          "Check for a missing comma, quote or bracket near there."});
-    return result;
-  }
-  if (parsed.too_deep) {
-    result.errors.push_back(ScenarioError{display_name, parsed.too_deep_at,
-                                          fmt::format("nested deeper than {} levels", machine_file::kMaxJsonDepth),
-                                          "No part of a scenario needs that; check the brackets."});
-    return result;
-  }
-  for (const auto& [path, key] : parsed.duplicates) {
-    result.errors.push_back(ScenarioError{display_name, path, fmt::format("duplicate key '{}' in one object", key),
-                                          "Remove one of them; otherwise only the last would count."});
-  }
-  if (!result.errors.empty()) return result;
-  const json& doc = parsed.doc;
+  result.errors = std::move(read.diagnostics);
+  if (!read.ok()) return result;
   Reader reader(display_name, machine, plant);
   try {
-    result.scenario = reader.read(doc);
+    result.scenario = reader.read(read.root);
   } catch (const json::exception& e) {
     reader.error("", std::string("unexpected JSON structure: ") + e.what(), "Compare the file with docs/scenario-format.md.");
     result.scenario.reset();
@@ -465,17 +479,16 @@ ScenarioLoad load_scenario_text(const std::string& text, const std::string& disp
   return result;
 }
 
+}  // namespace
+
+ScenarioLoad load_scenario_text(const std::string& text, const std::string& display_name,
+                                const core::MachineConfig& machine, const PlantFacts* plant) {
+  return load_document(jsondoc::read_text(text, display_name, scenario_limits()), display_name, machine, plant);
+}
+
 ScenarioLoad load_scenario_file(const std::string& path, const core::MachineConfig& machine,
                                 const PlantFacts* plant) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    ScenarioLoad result;
-    result.errors.push_back(ScenarioError{path, "", "cannot open the file", "Check the path and permissions."});
-    return result;
-  }
-  std::ostringstream text;
-  text << in.rdbuf();
-  return load_scenario_text(text.str(), path, machine, plant);
+  return load_document(jsondoc::read_file(path, scenario_limits()), path, machine, plant);
 }
 
 }  // namespace spoolstep::benchrun

@@ -24,7 +24,8 @@
 
 #include "spoolstep/core/controller.hpp"
 #include "spoolstep/core/soft_command.hpp"
-#include "spoolstep/machine_file/json_text.hpp"
+#include "spoolstep/jsondoc/reader.hpp"
+#include "spoolstep/runtime/scan_loop.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/machine_file/parameters.hpp"
 
@@ -32,6 +33,9 @@ namespace spoolstep::machine_file {
 namespace {
 
 using json = nlohmann::json;
+using jsondoc::closest;
+using jsondoc::escape_token;
+using jsondoc::printable;
 
 constexpr const char* kCapacityHeader = "firmware_core/include/spoolstep/core/capacity.hpp";
 
@@ -55,35 +59,6 @@ std::string pattern_of(const std::string& path) {
     pos = next;
   }
   return out;
-}
-
-std::size_t edit_distance(std::string_view a, std::string_view b) {
-  std::vector<std::size_t> row(b.size() + 1);
-  for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
-  for (std::size_t i = 1; i <= a.size(); ++i) {
-    std::size_t diagonal = row[0];
-    row[0] = i;
-    for (std::size_t j = 1; j <= b.size(); ++j) {
-      const std::size_t up = row[j];
-      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diagonal + (a[i - 1] == b[j - 1] ? 0u : 1u)});
-      diagonal = up;
-    }
-  }
-  return row[b.size()];
-}
-
-/// The candidate closest to `word`, if it is close enough to be a likely typo.
-std::optional<std::string> closest(std::string_view word, const std::vector<std::string>& candidates) {
-  std::optional<std::string> best;
-  std::size_t best_distance = std::max<std::size_t>(2, word.size() / 3) + 1;
-  for (const auto& candidate : candidates) {
-    const std::size_t d = edit_distance(word, candidate);
-    if (d < best_distance) {
-      best_distance = d;
-      best = candidate;
-    }
-  }
-  return best;
 }
 
 std::string join(const std::vector<std::string>& items, std::string_view separator) {
@@ -114,9 +89,7 @@ std::string got(const json& value) {
   // Containers by their size only: printing a deeply nested one would recurse without bound.
   if (value.is_array()) return fmt::format("a list of {} items", value.size());
   if (value.is_object()) return fmt::format("an object with {} keys", value.size());
-  std::string text = value.dump();
-  if (text.size() > 40) text = text.substr(0, 37) + "...";
-  return text;
+  return printable(value.dump(), 40);
 }
 
 /// The value with its JSON type, for type errors: `string "200"`, `null`.
@@ -278,7 +251,7 @@ class Loader {
 
   void unknown_key(const std::string& path, const std::string& key, const std::vector<std::string>& known) {
     const auto suggestion = closest(key, known);
-    fail(child(path, key), fmt::format("unknown field '{}'", key),
+    fail(child(path, key), fmt::format("unknown field '{}'", printable(key)),
          suggestion ? fmt::format("Did you mean '{}'?", *suggestion)
                     : fmt::format("Remove it; fields allowed here: {}.", join(known, ", ")));
   }
@@ -362,12 +335,12 @@ class Loader {
       const auto choices = split_choices(p.choices);
       if (std::find(choices.begin(), choices.end(), value) == choices.end()) {
         if (field == "/format") {
-          fail(field, fmt::format("unsupported format \"{}\"", value),
+          fail(field, fmt::format("unsupported format \"{}\"", printable(value)),
                fmt::format("This program reads \"{}\" files.", kFormatTag));
           return std::nullopt;
         }
         const auto suggestion = closest(value, choices);
-        fail(field, fmt::format("unknown value \"{}\"; must be one of: {}", value, join(choices, ", ")),
+        fail(field, fmt::format("unknown value \"{}\"; must be one of: {}", printable(value), join(choices, ", ")),
              suggestion ? fmt::format("Did you mean \"{}\"?", *suggestion) : std::string("Use one of the listed values."));
         return std::nullopt;
       }
@@ -385,7 +358,7 @@ class Loader {
       return "";
     }
     if (value->size() > core::kMaxNameLength) {
-      fail(field, fmt::format("name '{}' is {} characters long; at most {} fit (kMaxNameLength)", *value,
+      fail(field, fmt::format("name '{}' is {} characters long; at most {} fit (kMaxNameLength)", printable(*value),
                               value->size(), core::kMaxNameLength),
            "Shorten the name.");
       return "";
@@ -395,7 +368,7 @@ class Loader {
       return std::isalnum(static_cast<unsigned char>(c)) != 0 || c == '_';
     });
     if (!starts_ok || !chars_ok) {
-      fail(field, fmt::format("name '{}' has characters other than letters, digits and '_', or does not start with a letter", *value),
+      fail(field, fmt::format("name '{}' has characters other than letters, digits and '_', or does not start with a letter", printable(*value)),
            "Use names like press_pressure or guard_closed.");
       return "";
     }
@@ -445,7 +418,7 @@ class Loader {
     std::vector<std::string> names;
     for (const auto& entry : index) names.push_back(entry.first);
     const auto suggestion = closest(name, names);
-    fail(field, fmt::format("unknown {} '{}'", ref_noun(kind), name),
+    fail(field, fmt::format("unknown {} '{}'", ref_noun(kind), printable(name)),
          suggestion ? fmt::format("Did you mean '{}'?", *suggestion)
                     : fmt::format("Declare it under {} or fix the name.", ref_home(kind)));
     return core::kNoIndex8;
@@ -904,7 +877,7 @@ void Loader::load_inputs(const json& doc) {
       if (claim_name(io_names_, name, p, "I/O point")) analog_[name] = static_cast<std::uint8_t>(i);
       if (const auto unit = read_string(item, p, "unit")) {
         if (unit->size() > core::kMaxNameLength) {
-          fail(child(p, "unit"), fmt::format("unit '{}' is longer than {} characters", *unit, core::kMaxNameLength),
+          fail(child(p, "unit"), fmt::format("unit '{}' is longer than {} characters", printable(*unit), core::kMaxNameLength),
                "Shorten the unit.");
         }
         set_name(ai.unit, *unit);
@@ -1562,7 +1535,7 @@ void Loader::load_sequence(const json& doc) {
             std::vector<std::string> known;
             for (const auto& entry : names) known.push_back(entry.first);
             const auto suggestion = closest(*ramp, known);
-            fail(child(q, "ramp"), fmt::format("function '{}' has no ramp '{}'", name_view(fc.name), *ramp),
+            fail(child(q, "ramp"), fmt::format("function '{}' has no ramp '{}'", name_view(fc.name), printable(*ramp)),
                  suggestion ? fmt::format("Did you mean '{}'?", *suggestion)
                             : fmt::format("Its ramps are: {}.", known.empty() ? std::string("none") : join(known, ", ")));
           }
@@ -1670,75 +1643,56 @@ void Loader::load(const json& doc) {
 
 }  // namespace
 
-std::string LoadError::to_string() const {
-  std::string out = file + ": ";
-  if (!json_path.empty()) out += json_path + ": ";
-  out += reason + ".";
-  if (!hint.empty()) out += " " + hint;
-  return out;
+const jsondoc::ReadLimits& machine_file_limits() {
+  static const jsondoc::ReadLimits limits{kMaxMachineFileBytes, kMaxMachineFileArrayItems, kMaxMachineFileDepth,
+                                          "machine file"};
+  return limits;
 }
 
-LoadResult load_machine_text(const std::string& text, const std::string& display_name) {
+namespace {
+
+LoadResult load_document(jsondoc::ReadResult read, const std::string& display_name) {
   LoadResult result;
-  auto error = [&](std::string path, std::string reason, std::string hint) {
-    result.errors.push_back(LoadError{display_name, std::move(path), std::move(reason), std::move(hint)});
-  };
+  result.errors = std::move(read.diagnostics);
+  if (!read.ok()) return result;
   try {
-    ParsedJson parsed = parse_json_text(text);
-    if (!parsed.syntax_error.empty()) {
-      error("", "invalid JSON: " + parsed.syntax_error,
-            "Fix the JSON syntax there (a missing comma, quote or bracket is the usual cause).");
-      return result;
-    }
-    if (parsed.too_deep) {
-      error(parsed.too_deep_at, fmt::format("nested deeper than {} levels", kMaxJsonDepth),
-            "No part of a machine file needs that; check the brackets.");
-      return result;
-    }
-    for (const auto& [path, key] : parsed.duplicates) {
-      error(path, fmt::format("duplicate key '{}' in one object", key),
-            "Remove one of them; JSON parsers would silently keep only the last.");
-    }
-    const json& doc = parsed.doc;
     auto machine = std::make_unique<LoadedMachine>();
     Loader loader(display_name, machine->config);
-    loader.load(doc);
+    loader.load(read.root);
     result.errors.insert(result.errors.end(), loader.errors.begin(), loader.errors.end());
-    if (result.errors.empty()) {
+    if (!jsondoc::has_error(result.errors)) {
+      // The core checks the configuration again on its own and has the last
+      // word: a configuration it would hold safe from the first scan is bad
+      // input for every command, worded the same everywhere.
+      const core::Status status = core::validate_config(machine->config);
+      if (!status.is_ok()) {
+        result.errors.push_back(LoadError{display_name, "", runtime::core_rejection_text(status),
+                                          "Fix the machine file; if no error above names the field, please report "
+                                          "this with the file (the loader should have named it)."});
+        return result;
+      }
+    }
+    if (!jsondoc::has_error(result.errors)) {
       machine->plant = std::move(loader.plant);
       machine->source_path = display_name;
       result.machine = std::move(machine);
     }
   } catch (const std::exception& e) {
     result.machine.reset();
-    error("", std::string("internal error in the machine-file loader: ") + e.what(),
-          "Please report this with the machine file.");
+    result.errors.push_back(LoadError{display_name, "", std::string("internal error in the machine-file loader: ") + e.what(),
+                                      "Please report this with the machine file."});
   }
   return result;
 }
 
+}  // namespace
+
+LoadResult load_machine_text(const std::string& text, const std::string& display_name) {
+  return load_document(jsondoc::read_text(text, display_name, machine_file_limits()), display_name);
+}
+
 LoadResult load_machine_file(const std::string& path) {
-  std::error_code ec;
-  if (!std::filesystem::exists(path, ec)) {
-    LoadResult result;
-    result.errors.push_back(LoadError{path, "", "file not found", "Check the path and the working directory."});
-    return result;
-  }
-  if (!std::filesystem::is_regular_file(path, ec)) {
-    LoadResult result;
-    result.errors.push_back(LoadError{path, "", "not a regular file", "Give the path of a .json machine file."});
-    return result;
-  }
-  std::ifstream in(path, std::ios::binary);
-  std::ostringstream text;
-  if (in) text << in.rdbuf();
-  if (!in || in.bad()) {
-    LoadResult result;
-    result.errors.push_back(LoadError{path, "", fmt::format("cannot read file: {}", std::strerror(errno)),
-                                      "Check the file's permissions."});
-    return result;
-  }
-  return load_machine_text(text.str(), path);
+  return load_document(jsondoc::read_file(path, machine_file_limits()), path);
 }
 
 }  // namespace spoolstep::machine_file

@@ -52,4 +52,33 @@ std::optional<std::uint8_t> find_ramp(const core::MachineConfig& c, std::uint8_t
   return find_in(f.ramps, f.ramp_count, name, [](const auto& r) -> const core::Name& { return r.name; });
 }
 
+namespace {
+
+template <typename Table, typename NameOf>
+std::vector<std::string> names_in(const Table& table, std::size_t count, NameOf name_of) {
+  std::vector<std::string> names;
+  for (std::size_t i = 0; i < count && i < table.size(); ++i) names.emplace_back(name_view(name_of(table[i])));
+  return names;
+}
+
+}  // namespace
+
+std::vector<std::string> names_of(const core::MachineConfig& c, NamedKind kind) {
+  switch (kind) {
+    case NamedKind::kDigitalInput:
+      return names_in(c.digital_inputs, c.digital_input_count, self);
+    case NamedKind::kAnalogInput:
+      return names_in(c.analog_inputs, c.analog_input_count, [](const auto& a) -> const core::Name& { return a.name; });
+    case NamedKind::kCoil:
+      return names_in(c.coils, c.coil_count, self);
+    case NamedKind::kPropOutput:
+      return names_in(c.prop_outputs, c.prop_output_count, [](const auto& p) -> const core::Name& { return p.name; });
+    case NamedKind::kFunction:
+      return names_in(c.functions, c.function_count, [](const auto& f) -> const core::Name& { return f.name; });
+    case NamedKind::kStep:
+      return names_in(c.steps, c.step_count, [](const auto& st) -> const core::Name& { return st.name; });
+  }
+  return {};
+}
+
 }  // namespace spoolstep::machine_file

@@ -45,16 +45,6 @@ int run_check(const CheckOptions& options) {
     return kExitBadInput;
   }
   const auto& c = result.machine->config;
-  // The core checks the configuration again on its own; a disagreement is a
-  // loader bug, and the file must not reach a machine.
-  const core::Status core_check = core::validate_config(c);
-  if (!core_check.is_ok()) {
-    std::cerr << fmt::format("{}: the control core rejects the loaded configuration ({} in {} row {}). "
-                             "This is a spoolstep bug: please report it with the file.\n",
-                             options.machine_file, core::to_string(core_check.code()), core_check.where(),
-                             core_check.index());
-    return kExitInternal;
-  }
   // The plant section (read by the bench) is checked here too, so that a
   // machine file that passes check also runs on the bench.
   std::vector<std::string> unsensed;  // analog inputs no plant sensor drives

@@ -32,8 +32,10 @@ int run_sim(const SimOptions& o) {
   auto machine = load_machine_or_report(o.machine_path, "sim");
   if (!machine) return kExitBadInput;
   if (machine->plant.is_null()) {
-    std::cerr << "spoolstep sim: " << o.machine_path
-              << ": the machine file has no \"plant\" section. Add one (see docs/plant-model.md), or use 'spoolstep replay' to run the core alone.\n";
+    const jsondoc::Diagnostic missing{o.machine_path, "/plant", "missing the plant section a bench run needs",
+                                      "Add one (see docs/plant-model.md), or use 'spoolstep replay' to run the "
+                                      "core alone."};
+    std::cerr << "spoolstep sim: " << missing.to_string() << "\n";
     return kExitBadInput;
   }
   hostsim::BuildResult built = hostsim::build_plant(machine->plant, machine->config, o.machine_path);

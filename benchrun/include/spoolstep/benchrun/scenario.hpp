@@ -14,6 +14,7 @@
 
 #include "spoolstep/core/config.hpp"
 #include "spoolstep/core/soft_command.hpp"
+#include "spoolstep/jsondoc/reader.hpp"
 
 namespace spoolstep::benchrun {
 
@@ -76,11 +77,17 @@ struct Scenario {
   std::vector<Expectation> expectations;
 };
 
-struct ScenarioError {
-  std::string file, json_path, reason, hint;
-  /// "file: /path: reason. hint"
-  std::string to_string() const;
-};
+/// One problem in a scenario: the project's one diagnostic type.
+using ScenarioError = jsondoc::Diagnostic;
+
+/// Documented bounds on a scenario (docs/scenario-format.md, "Limits").
+inline constexpr std::size_t kMaxScenarioBytes = 4U << 20U;  ///< 4 MiB
+/// Longest list (timeline, expectations); a bench scenario with more events
+/// than this is a recording, and belongs in a replay trace.
+inline constexpr std::size_t kMaxScenarioArrayItems = 20000;
+
+/// The reader limits above, for the one JSON reader.
+const jsondoc::ReadLimits& scenario_limits();
 
 /// What the scenario loader needs to know about the plant, if there is one.
 struct PlantFacts {

@@ -15,22 +15,27 @@
 #include <nlohmann/json.hpp>
 
 #include "spoolstep/core/config.hpp"
+#include "spoolstep/jsondoc/diagnostic.hpp"
+#include "spoolstep/jsondoc/reader.hpp"
 
 namespace spoolstep::machine_file {
 
 /// The format tag every machine file must carry in "format".
 inline constexpr const char* kFormatTag = "spoolstep-machine/1";
 
-/// One problem in a machine file.
-struct LoadError {
-  std::string file;       ///< the file name as given (or the display name)
-  std::string json_path;  ///< RFC 6901 pointer, "" for the whole document
-  std::string reason;     ///< what is wrong, with the offending value
-  std::string hint;       ///< what to do about it
+/// One problem in a machine file: the project's one diagnostic type.
+using LoadError = jsondoc::Diagnostic;
 
-  /// "file: /json/path: reason. hint" (the path is left out when empty).
-  std::string to_string() const;
-};
+/// Documented bounds on a machine file (machine-file-reference.md, "Limits"):
+/// no realistic machine comes near them, and a file past them is refused in
+/// milliseconds instead of being parsed and walked.
+inline constexpr std::size_t kMaxMachineFileBytes = 1U << 20U;  ///< 1 MiB; the demo is 15 kB
+/// Longest list anywhere in the file; the core's capacities (capacity.hpp) are far below it.
+inline constexpr std::size_t kMaxMachineFileArrayItems = 1024;
+inline constexpr int kMaxMachineFileDepth = 64;  ///< nesting depth, conditions included
+
+/// The reader limits above, for the one JSON reader.
+const jsondoc::ReadLimits& machine_file_limits();
 
 /// A successfully loaded machine.
 struct LoadedMachine {
@@ -78,6 +83,12 @@ std::optional<std::uint8_t> find_analog_input(const core::MachineConfig& config,
 std::optional<std::uint8_t> find_coil(const core::MachineConfig& config, std::string_view name);
 /// Index of the named proportional output channel, or nullopt.
 std::optional<std::uint8_t> find_prop_output(const core::MachineConfig& config, std::string_view name);
+
+/// The kinds of named item a document outside the machine file may refer to.
+enum class NamedKind { kDigitalInput, kAnalogInput, kCoil, kPropOutput, kFunction, kStep };
+
+/// Every name of one kind, in declaration order (for "did you mean" hints).
+std::vector<std::string> names_of(const core::MachineConfig& config, NamedKind kind);
 /// Index of the named function, or nullopt.
 std::optional<std::uint8_t> find_function(const core::MachineConfig& config, std::string_view name);
 /// Index of the named sequence step, or nullopt.

@@ -1,0 +1,113 @@
+#include "spoolstep/jsondoc/diagnostic.hpp"
+
+#include <algorithm>
+
+#include <fmt/format.h>
+
+namespace spoolstep::jsondoc {
+
+const char* severity_word(Severity severity) {
+  switch (severity) {
+    case Severity::kError:
+      return "error";
+    case Severity::kWarning:
+      return "warning";
+    case Severity::kNote:
+      return "note";
+  }
+  return "error";
+}
+
+std::string Diagnostic::to_string() const {
+  std::string out = file + ": ";
+  if (severity != Severity::kError) out += std::string(severity_word(severity)) + ": ";
+  if (!json_path.empty()) out += printable(json_path, 2 * kMaxEchoedChars) + ": ";
+  out += reason + ".";
+  if (!hint.empty()) out += " " + hint;
+  return out;
+}
+
+bool has_error(const std::vector<Diagnostic>& list) {
+  return std::any_of(list.begin(), list.end(), [](const Diagnostic& d) { return d.severity == Severity::kError; });
+}
+
+std::string printable(std::string_view text, std::size_t max_chars) {
+  std::size_t keep = std::min(text.size(), max_chars);
+  // Never cut a UTF-8 sequence in half: back up over continuation bytes.
+  if (keep < text.size()) {
+    while (keep > 0 && (static_cast<unsigned char>(text[keep]) & 0xC0U) == 0x80U) --keep;
+  }
+  std::string out;
+  out.reserve(keep + 16);
+  for (std::size_t i = 0; i < keep; ++i) {
+    const auto c = static_cast<unsigned char>(text[i]);
+    if (c == '\n') {
+      out += "\\n";
+    } else if (c == '\t') {
+      out += "\\t";
+    } else if (c < 0x20U || c == 0x7FU) {
+      out += fmt::format("\\x{:02X}", c);
+    } else {
+      out += static_cast<char>(c);
+    }
+  }
+  if (keep < text.size()) out += fmt::format("... ({} bytes)", text.size());
+  return out;
+}
+
+namespace {
+
+std::size_t edit_distance(std::string_view a, std::string_view b) {
+  std::vector<std::size_t> row(b.size() + 1);
+  for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    std::size_t diagonal = row[0];
+    row[0] = i;
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      const std::size_t up = row[j];
+      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diagonal + (a[i - 1] == b[j - 1] ? 0U : 1U)});
+      diagonal = up;
+    }
+  }
+  return row[b.size()];
+}
+
+}  // namespace
+
+std::optional<std::string> closest(std::string_view word, const std::vector<std::string>& candidates) {
+  if (word.size() > kMaxEchoedChars) return std::nullopt;
+  std::optional<std::string> best;
+  std::size_t best_distance = std::max<std::size_t>(2, word.size() / 3) + 1;
+  for (const auto& candidate : candidates) {
+    if (candidate.size() > kMaxEchoedChars) continue;
+    const std::size_t d = edit_distance(word, candidate);
+    if (d < best_distance) {
+      best_distance = d;
+      best = candidate;
+    }
+  }
+  return best;
+}
+
+std::string did_you_mean(std::string_view word, const std::vector<std::string>& candidates,
+                         std::string_view otherwise) {
+  const auto suggestion = closest(word, candidates);
+  return suggestion ? fmt::format("Did you mean '{}'?", *suggestion) : std::string(otherwise);
+}
+
+std::string escape_token(std::string_view token) {
+  std::string out;
+  out.reserve(token.size());
+  for (const char c : token) {
+    if (c == '~') {
+      out += "~0";
+    } else if (c == '/') {
+      out += "~1";
+    } else {
+      out += c;
+    }
+  }
+  return out;
+}
+
+}  // namespace spoolstep::jsondoc
