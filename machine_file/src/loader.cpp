@@ -157,22 +157,6 @@ std::optional<RefKind> ref_kind_of(ParamType type) {
 
 // The valve keys a kind takes, from its row in core::kValveKinds (in the
 // order the reference documents them).
-std::vector<std::string_view> valve_keys_of(const core::ValveKindRow& row) {
-  std::vector<std::string_view> keys;
-  const auto drives = [&](std::uint8_t bits) { return (row.outputs & bits) != 0; };
-  if (row.has_centre) keys.push_back("centre");
-  if (drives(core::kDrivesCoilExtend)) keys.push_back("coil_extend");
-  if (drives(core::kDrivesCoilRetract)) keys.push_back("coil_retract");
-  if (drives(core::kDrivesCurrentExtend)) keys.push_back("channel_extend");
-  if (drives(core::kDrivesCurrentRetract)) keys.push_back("channel_retract");
-  if (drives(core::kDrivesCurrentExtend)) keys.push_back("current_extend_ma");
-  if (drives(core::kDrivesCurrentRetract)) keys.push_back("current_retract_ma");
-  if (drives(core::kDrivesSignedCommand)) keys.push_back("channel");
-  if (drives(core::kDrivesSignedCommand)) keys.push_back("deadband_jump_percent");
-  if (row.meters) keys.push_back("dither");
-  if (row.detented) keys.push_back("detent_pulse_ms");
-  return keys;
-}
 
 const core::ValveKindRow* valve_kind_named(const std::string& key) {
   for (const core::ValveKindRow& row : core::kValveKinds) {
@@ -282,7 +266,7 @@ class Loader {
     const Parameter& p = spec(field, spec_key);
     const json* j = member(obj, path, key);
     if (j == nullptr) {
-      if (p.required) {
+      if (p.presence.required_in_object()) {
         missing(path, key, fmt::format("{} ({}{}{}, {} to {}).", p.description, to_string(p.type),
                                        p.unit.empty() ? "" : " in ", p.unit, number_text(p.min), number_text(p.max)));
         return std::nullopt;
@@ -321,7 +305,7 @@ class Loader {
     const Parameter& p = spec(field, spec_key);
     const json* j = member(obj, path, key);
     if (j == nullptr) {
-      if (p.required) missing(path, key, std::string(p.description));
+      if (p.presence.required_in_object()) missing(path, key, std::string(p.description));
       if (p.default_value.empty()) return std::nullopt;
       return std::string(p.default_value);
     }
@@ -441,7 +425,7 @@ class Loader {
     const Parameter& p = spec(field, spec_key);
     const json* j = member(obj, path, key);
     if (j == nullptr) {
-      if (p.required) missing(path, key, std::string(p.description) + " (a condition).");
+      if (p.presence.required_in_object()) missing(path, key, std::string(p.description) + " (a condition).");
       return core::kNoCondition;
     }
     return compile(*j, field);

@@ -32,8 +32,13 @@ constexpr auto kValveKindChoices = join_keys<256>(core::kValveKinds, 0);
 constexpr auto kCentreChoices = join_keys<128>(core::kCentres, 1);  // "none" (4/2) is never written in a file
 
 using T = ParamType;
-constexpr bool kReq = true;
-constexpr bool kOpt = false;
+constexpr Presence kReq{Presence::Kind::kAlways, ""};
+constexpr Presence kOpt{Presence::Kind::kOptional, ""};
+constexpr Presence kInObject{Presence::Kind::kInObject, ""};
+constexpr Presence required_when(std::string_view when) { return Presence{Presence::Kind::kWhen, when}; }
+// The valve kind decides which outputs it needs: the "Valve kinds" table of
+// the reference, printed from core::kValveKinds.
+constexpr Presence kWhenTheValveKindNeedsIt = required_when("the valve kind needs it (Valve kinds table)");
 constexpr double kNoLimit = 0.0;
 
 // Longest time the file may give in milliseconds: one hour. The core keeps
@@ -55,7 +60,7 @@ constexpr std::array kTable = {
   Parameter{"/timing/scan_period_us", T::kInteger, "us", kOpt, "1000", 100, 100000, "",
             "Nominal scan period the host runners use.", ""},
   Parameter{"/timing/watchdog_ms", T::kInteger, "ms", kOpt, "20", 1, 10000, "",
-            "A scan later than this after the previous one forces safe outputs; must exceed two scan periods.", ""},
+            "A scan later than this after the previous one forces safe outputs; at least two scan periods.", ""},
   Parameter{"/timing/max_digital_age_ms", T::kInteger, "ms", kOpt, "50", 1, 60000, "",
             "Digital inputs older than this fault the machine.",
             "The check cannot be switched off: a frozen input image must stop the machine."},
@@ -95,7 +100,7 @@ constexpr std::array kTable = {
 
   Parameter{"/power_unit/description", T::kText, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Free text.", ""},
-  Parameter{"/power_unit/motor", T::kCoil, "", kReq, "", kNoLimit, kNoLimit, "",
+  Parameter{"/power_unit/motor", T::kCoil, "", kInObject, "", kNoLimit, kNoLimit, "",
             "Coil of the pump motor contactor.", ""},
   Parameter{"/power_unit/dump_valve", T::kCoil, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Coil of the dump (unloading) valve: energised = pump loaded; off dumps to tank.", ""},
@@ -163,51 +168,51 @@ constexpr std::array kTable = {
             "Directional valve type; decides which outputs and settings the valve needs.", ""},
   Parameter{"/functions/*/valve/description", T::kText, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Free text, e.g. why this centre was chosen.", ""},
-  Parameter{"/functions/*/valve/centre", T::kChoice, "", kOpt, "", kNoLimit, kNoLimit,
+  Parameter{"/functions/*/valve/centre", T::kChoice, "", required_when("the valve is 4/3 (not allowed on 4/2)"), "", kNoLimit, kNoLimit,
             kCentreChoices.text.data(),
-            "Flow paths of the 4/3 spool in its centre position; required for 4/3 valves, not allowed on 4/2.", ""},
-  Parameter{"/functions/*/valve/coil_extend", T::kCoil, "", kOpt, "", kNoLimit, kNoLimit, "",
-            "Solenoid valves: coil that shifts P->A (extend). Required for solenoid kinds.", ""},
-  Parameter{"/functions/*/valve/coil_retract", T::kCoil, "", kOpt, "", kNoLimit, kNoLimit, "",
-            "Double-solenoid valves: coil that shifts P->B (retract). Not on 4/2 spring return.", ""},
-  Parameter{"/functions/*/valve/channel_extend", T::kPropOutput, "", kOpt, "", kNoLimit, kNoLimit, "",
-            "Two-solenoid proportional: mA channel for P->A. Required for that kind.", ""},
-  Parameter{"/functions/*/valve/channel_retract", T::kPropOutput, "", kOpt, "", kNoLimit, kNoLimit, "",
-            "Two-solenoid proportional: mA channel for P->B. Required for that kind.", ""},
-  Parameter{"/functions/*/valve/channel", T::kPropOutput, "", kOpt, "", kNoLimit, kNoLimit, "",
-            "Signed proportional: the one percent channel (+ extend, - retract). Required for that kind.", ""},
+            "Flow paths of the 4/3 spool in its centre position.", ""},
+  Parameter{"/functions/*/valve/coil_extend", T::kCoil, "", kWhenTheValveKindNeedsIt, "", kNoLimit, kNoLimit, "",
+            "Solenoid valves: coil that shifts P->A (extend).", ""},
+  Parameter{"/functions/*/valve/coil_retract", T::kCoil, "", kWhenTheValveKindNeedsIt, "", kNoLimit, kNoLimit, "",
+            "Double-solenoid valves: coil that shifts P->B (retract).", ""},
+  Parameter{"/functions/*/valve/channel_extend", T::kPropOutput, "", kWhenTheValveKindNeedsIt, "", kNoLimit, kNoLimit, "",
+            "Two-solenoid proportional: mA channel for P->A.", ""},
+  Parameter{"/functions/*/valve/channel_retract", T::kPropOutput, "", kWhenTheValveKindNeedsIt, "", kNoLimit, kNoLimit, "",
+            "Two-solenoid proportional: mA channel for P->B.", ""},
+  Parameter{"/functions/*/valve/channel", T::kPropOutput, "", kWhenTheValveKindNeedsIt, "", kNoLimit, kNoLimit, "",
+            "Signed proportional: the one percent channel (+ extend, - retract).", ""},
   Parameter{"/functions/*/valve/enable", T::kCoil, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Optional valve-electronics enable coil, on while not in a category 0/1 stop.", ""},
-  Parameter{"/functions/*/valve/current_extend_ma/crack", T::kNumber, "mA", kReq, "", 0, 3000, "",
+  Parameter{"/functions/*/valve/current_extend_ma/crack", T::kNumber, "mA", kInObject, "", 0, 3000, "",
             "Two-solenoid proportional: current at which the P->A edge starts to open.",
             // Proportional solenoid maxima about 0.6-3 A: check-values.md 4.15 [PRACTICE], common practice, no source.
             "Proportional solenoid currents are at most about 3 A (common practice, no source)."},
-  Parameter{"/functions/*/valve/current_extend_ma/max", T::kNumber, "mA", kReq, "", 1, 3000, "",
+  Parameter{"/functions/*/valve/current_extend_ma/max", T::kNumber, "mA", kInObject, "", 1, 3000, "",
             "Two-solenoid proportional: current at full P->A opening; above crack.",
             "Proportional solenoid currents are at most about 3 A (common practice, no source)."},
-  Parameter{"/functions/*/valve/current_retract_ma/crack", T::kNumber, "mA", kReq, "", 0, 3000, "",
+  Parameter{"/functions/*/valve/current_retract_ma/crack", T::kNumber, "mA", kInObject, "", 0, 3000, "",
             "Two-solenoid proportional: current at which the P->B edge starts to open.",
             "Proportional solenoid currents are at most about 3 A (common practice, no source)."},
-  Parameter{"/functions/*/valve/current_retract_ma/max", T::kNumber, "mA", kReq, "", 1, 3000, "",
+  Parameter{"/functions/*/valve/current_retract_ma/max", T::kNumber, "mA", kInObject, "", 1, 3000, "",
             "Two-solenoid proportional: current at full P->B opening; above crack.",
             "Proportional solenoid currents are at most about 3 A (common practice, no source)."},
   Parameter{"/functions/*/valve/deadband_jump_percent", T::kNumber, "%", kOpt, "0", 0, 50, "",
             "Signed proportional: a command just above 0 jumps to this to cross the spool overlap.", ""},
   Parameter{"/functions/*/valve/dither/amplitude_ma", T::kNumber, "mA", kOpt, "0", 0, 500, "",
             "Proportional: dither amplitude passed to the amplifier (0: off).", ""},
-  Parameter{"/functions/*/valve/dither/frequency_hz", T::kNumber, "Hz", kReq, "", 1, 1000, "",
-            "Proportional: dither frequency; required when dither is given.", ""},
+  Parameter{"/functions/*/valve/dither/frequency_hz", T::kNumber, "Hz", kInObject, "", 1, 1000, "",
+            "Proportional: dither frequency.", ""},
   Parameter{"/functions/*/valve/detent_pulse_ms", T::kInteger, "ms", kOpt, "100", 10, 2000, "",
             "Detented 4/2 valves: length of the coil pulse that shifts the spool.", ""},
   Parameter{"/functions/*/extended_end", T::kDigitalInput, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Input that is true at the extended end of travel.", ""},
   Parameter{"/functions/*/retracted_end", T::kDigitalInput, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Input that is true at the retracted end of travel.", ""},
-  Parameter{"/functions/*/position/input", T::kAnalogInput, "", kReq, "", kNoLimit, kNoLimit, "",
+  Parameter{"/functions/*/position/input", T::kAnalogInput, "", kInObject, "", kNoLimit, kNoLimit, "",
             "Analog position input of the actuator.", ""},
-  Parameter{"/functions/*/position/extend_limit", T::kNumber, "input's unit", kReq, "", -1e9, 1e9, "",
+  Parameter{"/functions/*/position/extend_limit", T::kNumber, "input's unit", kInObject, "", -1e9, 1e9, "",
             "Extending stops at this position; inside the input range, above retract_limit.", ""},
-  Parameter{"/functions/*/position/retract_limit", T::kNumber, "input's unit", kReq, "", -1e9, 1e9, "",
+  Parameter{"/functions/*/position/retract_limit", T::kNumber, "input's unit", kInObject, "", -1e9, 1e9, "",
             "Retracting stops at this position; inside the input range.", ""},
   Parameter{"/functions/*/reversal_dwell_ms", T::kInteger, "ms", kOpt, "100", 0, 10000, "",
             "Both sides off at least this long before the direction reverses.", ""},
@@ -259,14 +264,14 @@ constexpr std::array kTable = {
             "Function the action moves while the step is active.", ""},
   Parameter{"/sequence/steps/*/actions/*/direction", T::kChoice, "", kReq, "", kNoLimit, kNoLimit, "extend|retract",
             "Direction of the motion.", ""},
-  Parameter{"/sequence/steps/*/actions/*/speed_percent", T::kNumber, "%", kOpt, "100", 1, 100, "",
-            "Speed in percent of full valve opening; required for proportional functions, solenoid valves always 100.", ""},
+  Parameter{"/sequence/steps/*/actions/*/speed_percent", T::kNumber, "%", required_when("the function is proportional"), "100", 1, 100, "",
+            "Speed in percent of full valve opening; solenoid valves shift fully: absent or 100.", ""},
   Parameter{"/sequence/steps/*/actions/*/ramp", T::kRamp, "", kOpt, "", kNoLimit, kNoLimit, "",
             "Ramp of the function to use (proportional only); absent: the function's first ramp.", ""},
   Parameter{"/sequence/steps/*/min_time_ms", T::kInteger, "ms", kOpt, "0", 0, kMaxTimeMs, "",
             "No transition out of the step fires before this.", ""},
-  Parameter{"/sequence/steps/*/supervision_ms", T::kInteger, "ms", kOpt, "0", 0, kMaxTimeMs, "",
-            "Fault if the step is still active after this; required (and not 0) for steps with actions, 0 = unsupervised.", ""},
+  Parameter{"/sequence/steps/*/supervision_ms", T::kInteger, "ms", required_when("the step has actions (and then not 0)"), "0", 0, kMaxTimeMs, "",
+            "Fault if the step is still active after this; 0 = unsupervised.", ""},
   Parameter{"/sequence/transitions/*/from", T::kStep, "", kReq, "", kNoLimit, kNoLimit, "",
             "Step the transition leaves.", ""},
   Parameter{"/sequence/transitions/*/to", T::kStep, "", kReq, "", kNoLimit, kNoLimit, "",
@@ -354,6 +359,23 @@ std::string_view to_string(ParamType type) {
     case ParamType::kSoftCommandList: return "soft command list";
   }
   return "?";
+}
+
+std::vector<std::string_view> valve_keys_of(const core::ValveKindRow& row) {
+  std::vector<std::string_view> keys;
+  const auto drives = [&](std::uint8_t bits) { return (row.outputs & bits) != 0; };
+  if (row.has_centre) keys.push_back("centre");
+  if (drives(core::kDrivesCoilExtend)) keys.push_back("coil_extend");
+  if (drives(core::kDrivesCoilRetract)) keys.push_back("coil_retract");
+  if (drives(core::kDrivesCurrentExtend)) keys.push_back("channel_extend");
+  if (drives(core::kDrivesCurrentRetract)) keys.push_back("channel_retract");
+  if (drives(core::kDrivesCurrentExtend)) keys.push_back("current_extend_ma");
+  if (drives(core::kDrivesCurrentRetract)) keys.push_back("current_retract_ma");
+  if (drives(core::kDrivesSignedCommand)) keys.push_back("channel");
+  if (drives(core::kDrivesSignedCommand)) keys.push_back("deadband_jump_percent");
+  if (row.meters) keys.push_back("dither");
+  if (row.detented) keys.push_back("detent_pulse_ms");
+  return keys;
 }
 
 }  // namespace spoolstep::machine_file

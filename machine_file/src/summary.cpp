@@ -267,6 +267,47 @@ std::string summarize(const core::MachineConfig& c) {
   return out.str();
 }
 
+namespace {
+
+/// The "Required" column: the loader's rule for the row, in words.
+std::string presence_text(const Parameter& p) {
+  switch (p.presence.kind) {
+    case Presence::Kind::kOptional:
+      return "no";
+    case Presence::Kind::kAlways:
+      return "yes";
+    case Presence::Kind::kInObject: {
+      const std::string_view key = p.key;
+      const std::size_t last = key.rfind('/');
+      const std::size_t before = last == std::string_view::npos ? 0 : key.rfind('/', last - 1);
+      const std::string_view parent = key.substr(before + 1, last - before - 1);
+      return fmt::format("yes, once `{}` is given", parent);
+    }
+    case Presence::Kind::kWhen:
+      return fmt::format("when {}", p.presence.when);
+  }
+  return "no";
+}
+
+/// The valve kinds, printed from the core's one table (core/valve_kinds.hpp).
+void write_valve_kind_table(std::ostream& out) {
+  out << "\n## Valve kinds\n\n"
+      << "Printed from `kValveKinds` in firmware_core/include/spoolstep/core/valve_kinds.hpp. A valve gives\n"
+      << "the fields of its kind (outputs required; settings as in the table above) and no other kind's.\n\n"
+      << "| `valve/kind` | Valve | Positions | Meters (ramps) | Fields of its own (outputs, settings) |\n"
+      << "|---|---|---|---|---|---|\n";
+  for (const core::ValveKindRow& row : core::kValveKinds) {
+    std::string fields;
+    for (const std::string_view field : valve_keys_of(row)) {
+      fields += (fields.empty() ? "" : ", ") + fmt::format("`{}`", field);
+    }
+    out << fmt::format("| `{}` | {} | {} | {} | {} |\n", row.key, row.text, row.positions,
+                       row.meters ? "yes" : "no", fields);
+  }
+}
+
+}  // namespace
+
 void write_parameter_reference(std::ostream& out) {
   out << "# Machine file parameter reference\n\n"
       << "Generated from the parameter table in machine_file/src/parameters.cpp by\n"
@@ -287,11 +328,21 @@ void write_parameter_reference(std::ostream& out) {
     }
     std::string description(p.description);
     if (!p.limit_note.empty()) description += " " + std::string(p.limit_note);
-    out << fmt::format("| `{}` | {} | {} | {} | {} | {} | {} | {} |\n", p.key, type, p.unit, p.required ? "yes" : "no",
-                       p.default_value.empty() ? (p.required ? "" : "none") : std::string(p.default_value),
+    const bool always = p.presence.required_in_object();
+    out << fmt::format("| `{}` | {} | {} | {} | {} | {} | {} | {} |\n", p.key, type, p.unit, presence_text(p),
+                       p.default_value.empty() ? (always ? "" : "none") : std::string(p.default_value),
                        numeric ? fmt::format("{:g}", p.min) : std::string(),
                        numeric ? fmt::format("{:g}", p.max) : std::string(), description);
   }
+  write_valve_kind_table(out);
+  out << "\n## Limits\n\n"
+      << "Checked while the file is read, so that a file past them is refused at once:\n\n"
+      << fmt::format("- file size: at most {} bytes;\n", kMaxMachineFileBytes)
+      << fmt::format("- any one list: at most {} items (the core's own capacities, in capacity.hpp, are lower);\n",
+                     kMaxMachineFileArrayItems)
+      << fmt::format("- nesting: at most {} levels, conditions included;\n", kMaxMachineFileDepth)
+      << "- numbers must fit a double; names at most " << core::kMaxNameLength
+      << " characters, letters, digits and '_'.\n";
 }
 
 std::vector<std::string> configuration_warnings(const core::MachineConfig& c) {

@@ -106,6 +106,11 @@ expect_code 2 $? "sim with a duplicate key in the scenario"
 grep -q "dup_scenario.json: /format: duplicate key 'format' in one object" "$work/err.txt" || fail "scenario duplicate message: $(cat "$work/err.txt")"
 [ -e "$work/run" ] && fail "sim created --out for a refused run"
 
+# The documented limits are the ones enforced (the messages above print the
+# enforced values; the scenario reference is written by hand).
+grep -q "at most 4 194 304 bytes" "$src/docs/scenario-format.md" || fail "scenario-format.md does not state the size limit the reader enforces"
+grep -q "file size: at most 1048576 bytes" "$src/config/machine-file-reference.md" || fail "machine-file-reference.md does not state the size limit"
+
 if [ "$failures" -ne 0 ]; then
   echo "$failures failure(s)"
   exit 1

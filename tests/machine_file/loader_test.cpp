@@ -254,9 +254,16 @@ TEST(ParameterTable, DefaultsLieWithinTheirLimitsAndChoices) {
     const Parameter& p = parameter_at(i);
     EXPECT_FALSE(p.description.empty()) << p.key;
     EXPECT_EQ(find_parameter(p.key), &p) << "keys are unique: " << p.key;
-    if (p.required) {
+    if (p.presence.required_in_object()) {
       EXPECT_TRUE(p.default_value.empty()) << p.key << ": a required field has no default";
     }
+    // A conditional requirement is written in the presence column, from the
+    // table, never only in the free text (where it drifted from the loader).
+    if (p.presence.kind == Presence::Kind::kWhen) {
+      EXPECT_FALSE(p.presence.when.empty()) << p.key;
+    }
+    EXPECT_EQ(std::string(p.description).find("equired"), std::string::npos)
+        << p.key << ": say when it is required in the presence, not in the description";
     if (p.default_value.empty()) continue;
     if (p.type == ParamType::kInteger || p.type == ParamType::kNumber) {
       const double value = std::stod(std::string(p.default_value));
