@@ -52,14 +52,6 @@ bool jacobian_changed(const Network& net, const NetworkInputs& a, const NetworkI
 
 }  // namespace
 
-std::string PlantError::message() const {
-  std::string m;
-  if (!file.empty()) m += file + ": ";
-  m += json_path.empty() ? std::string("/plant") : json_path;
-  m += ": " + reason;
-  if (!fix.empty()) m += "; " + fix;
-  return m;
-}
 
 double PlantSnapshot::get(std::string_view name) const {
   if (names == nullptr) return kNaN;

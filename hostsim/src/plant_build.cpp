@@ -77,13 +77,16 @@ class Reader {
       return false;
     }
     std::string known;
+    std::vector<std::string> fields;
     for (std::size_t i = 0; i < count_; ++i) {
-      if (section == params_[i].section) known += (known.empty() ? "" : ", ") + std::string(params_[i].key);
+      if (section != params_[i].section) continue;
+      known += (known.empty() ? "" : ", ") + std::string(params_[i].key);
+      fields.emplace_back(params_[i].key);
     }
     for (auto it = j.begin(); it != j.end(); ++it) {
       if (spec(section, it.key()) == nullptr) {
-        error(path + "/" + pointer_token(it.key()), "unknown field \"" + it.key() + "\"",
-              "remove it or use one of: " + known);
+        error(path + "/" + pointer_token(it.key()), "unknown field \"" + jsondoc::printable(it.key()) + "\"",
+              jsondoc::did_you_mean(it.key(), fields, "remove it or use one of: " + known));
       }
     }
     for (std::size_t i = 0; i < count_; ++i) {
@@ -218,8 +221,13 @@ struct Builder {
     auto it = nodes.find(name);
     if (it == nodes.end()) {
       std::string list;
-      for (const auto& [n, i] : nodes) list += (list.empty() ? "" : ", ") + n;
-      r.error(path + "/" + key, "no node named \"" + name + "\"", "use one of: " + list);
+      std::vector<std::string> names;
+      for (const auto& [n, i] : nodes) {
+        list += (list.empty() ? "" : ", ") + n;
+        names.push_back(n);
+      }
+      r.error(path + "/" + key, "no node named \"" + jsondoc::printable(name) + "\"",
+              jsondoc::did_you_mean(name, names, "use one of: " + list));
       return -1;
     }
     return it->second;

@@ -174,7 +174,7 @@ int main(int argc, char** argv) {
   if (config.analog_input_count > firmware::kGoldenAnalogChannels) fail(2, "more analog inputs than a frame carries");
   auto built = hostsim::build_plant(loaded.machine->plant, config, machine_path);
   if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
-    for (const auto& e : *errors) std::fprintf(stderr, "%s\n", e.message().c_str());
+    for (const auto& e : *errors) std::fprintf(stderr, "%s\n", e.to_string().c_str());
     fail(2, "cannot build the plant of " + machine_path);
   }
   hostsim::Plant& plant = *std::get<std::unique_ptr<hostsim::Plant>>(built);

@@ -29,7 +29,7 @@ bool has_error(const std::vector<PlantError>& errors, const std::string& path, c
 
 std::string all(const std::vector<PlantError>& errors) {
   std::string s;
-  for (const auto& e : errors) s += e.message() + "\n";
+  for (const auto& e : errors) s += e.to_string() + "\n";
   return s;
 }
 
@@ -45,9 +45,20 @@ TEST(PlantConfig, UnknownFieldIsAnErrorNamingPathAndFix) {
   rig.plant["cylinders"][0]["bore"] = 63;
   const auto errors = errors_of(rig);
   ASSERT_TRUE(has_error(errors, "/plant/cylinders/0/bore", "unknown field")) << all(errors);
-  const std::string m = errors[0].message();
+  const std::string m = errors[0].to_string();
   EXPECT_NE(m.find("machine.json: /plant/cylinders/0/bore"), std::string::npos) << m;
   EXPECT_NE(m.find("bore_mm"), std::string::npos) << "the fix lists the known fields: " << m;
+}
+
+TEST(PlantConfig, TypoInAFieldNameGetsDidYouMean) {
+  Rig rig = valid();
+  rig.plant["cylinders"][0]["bore_mn"] = 63;
+  const auto errors = errors_of(rig);
+  ASSERT_TRUE(has_error(errors, "/plant/cylinders/0/bore_mn", "unknown field")) << all(errors);
+  EXPECT_EQ(errors[0].hint, "Did you mean 'bore_mm'?") << all(errors);
+  // One diagnostic wording for every document: the hint reads as a sentence.
+  EXPECT_NE(errors[0].to_string().find("machine.json: /plant/cylinders/0/bore_mn: unknown field \"bore_mn\". Did you mean 'bore_mm'?"),
+            std::string::npos) << errors[0].to_string();
 }
 
 TEST(PlantConfig, MissingRequiredFieldAndOutOfRangeValue) {

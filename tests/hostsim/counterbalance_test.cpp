@@ -149,7 +149,7 @@ TEST(PlantCounterbalance, ConfigurationErrorsNameTheirPath) {
   auto* errors = std::get_if<std::vector<PlantError>>(&res);
   ASSERT_NE(errors, nullptr);
   std::string all;
-  for (const PlantError& e : *errors) all += e.message() + "\n";
+  for (const PlantError& e : *errors) all += e.to_string() + "\n";
   EXPECT_NE(all.find("/plant/cylinders/0/counterbalance/setting_bar: missing required field"), std::string::npos) << all;
   EXPECT_NE(all.find("/plant/cylinders/0/counterbalance/side: port B already carries a load-holding check"),
             std::string::npos) << all;

@@ -42,7 +42,7 @@ std::unique_ptr<Plant> demo_plant() {
   auto res = g_machine ? build_plant(pj, g_machine->config, g_machine->source_path)
                        : build_plant(pj, demo_machine(), "demo");
   if (auto* errs = std::get_if<std::vector<PlantError>>(&res)) {
-    for (const auto& e : *errs) std::fprintf(stderr, "%s\n", e.message().c_str());
+    for (const auto& e : *errs) std::fprintf(stderr, "%s\n", e.to_string().c_str());
     return nullptr;
   }
   return std::move(std::get<std::unique_ptr<Plant>>(res));

@@ -56,7 +56,7 @@ inline Rig single_cylinder(core::ValveKind kind, core::ValveCentre centre) {
 inline std::unique_ptr<Plant> build(const Rig& rig) {
   auto res = build_plant(rig.plant, rig.machine, "rig.json");
   if (auto* errors = std::get_if<std::vector<PlantError>>(&res)) {
-    for (const auto& e : *errors) ADD_FAILURE() << e.message();
+    for (const auto& e : *errors) ADD_FAILURE() << e.to_string();
     return nullptr;
   }
   return std::move(std::get<std::unique_ptr<Plant>>(res));

@@ -334,7 +334,7 @@ int run_export(const ExportOptions& options) {
   if (!result.machine->plant.is_null()) {
     hostsim::BuildResult built = hostsim::build_plant(result.machine->plant, config, options.machine_file);
     if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
-      for (const auto& e : *errors) std::cerr << e.message() << "\n";
+      for (const auto& e : *errors) std::cerr << e.to_string() << "\n";
       std::cerr << fmt::format("{}: {} error{} in the plant section; nothing written\n", options.machine_file,
                                errors->size(), errors->size() == 1 ? "" : "s");
       return kExitBadInput;

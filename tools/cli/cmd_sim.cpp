@@ -40,7 +40,7 @@ int run_sim(const SimOptions& o) {
   }
   hostsim::BuildResult built = hostsim::build_plant(machine->plant, machine->config, o.machine_path);
   if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
-    for (const auto& e : *errors) std::cerr << "spoolstep sim: " << e.message() << "\n";
+    for (const auto& e : *errors) std::cerr << "spoolstep sim: " << e.to_string() << "\n";
     return kExitBadInput;
   }
   hostsim::Plant& plant = *std::get<std::unique_ptr<hostsim::Plant>>(built);

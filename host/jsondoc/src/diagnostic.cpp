@@ -23,7 +23,14 @@ std::string Diagnostic::to_string() const {
   if (severity != Severity::kError) out += std::string(severity_word(severity)) + ": ";
   if (!json_path.empty()) out += printable(json_path, 2 * kMaxEchoedChars) + ": ";
   out += reason + ".";
-  if (!hint.empty()) out += " " + hint;
+  if (!hint.empty()) {
+    // A hint is a sentence, however its writer spelled it.
+    std::string sentence = hint;
+    if (sentence[0] >= 'a' && sentence[0] <= 'z') sentence[0] = static_cast<char>(sentence[0] - 'a' + 'A');
+    const char last = sentence.back();
+    if (last != '.' && last != '?' && last != '!' && last != ')') sentence += '.';
+    out += " " + sentence;
+  }
   return out;
 }
 

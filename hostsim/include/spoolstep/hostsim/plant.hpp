@@ -15,6 +15,8 @@
 
 #include <nlohmann/json_fwd.hpp>
 
+#include "spoolstep/jsondoc/diagnostic.hpp"
+
 #include "spoolstep/core/config.hpp"
 #include "spoolstep/core/io_image.hpp"
 #include "spoolstep/hostsim/integrator.hpp"
@@ -22,15 +24,9 @@
 
 namespace spoolstep::hostsim {
 
-/// One problem in the plant section: where, why, and what to do about it.
-struct PlantError {
-  std::string file;       ///< machine file name, may be empty
-  std::string json_path;  ///< JSON pointer, e.g. "/plant/valves/0/overlap_percent"
-  std::string reason;
-  std::string fix;        ///< what to change
-  /// "file: /plant/...: reason; fix".
-  std::string message() const;
-};
+/// One problem in the plant section: the project's one diagnostic type
+/// (file, pointer such as "/plant/valves/0/overlap_percent", reason, hint).
+using PlantError = jsondoc::Diagnostic;
 
 enum class FaultKind {
   kStuckSpool,       ///< target: function name; the spool freezes where it is
