@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "spoolstep/core/analog.hpp"
+#include "spoolstep/core/soft_command.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::benchrun {
@@ -60,8 +61,49 @@ std::string describe_fault(const core::MachineConfig& m, const core::Fault& f) {
   return "unknown fault";
 }
 
+std::string describe_notice(const core::MachineConfig& m, const core::Event& e) {
+  switch (e.code) {
+    case core::EventCode::kStartRefused: {
+      const std::string unmet = e.detail < m.node_count
+                                    ? fmt::format(": '{}' does not hold", name_view(m.nodes[e.detail].label))
+                                    : std::string();
+      switch (static_cast<core::StartRefusal>(e.subject)) {
+        case core::StartRefusal::kNotReady: return "cycle start refused (not stored)" + unmet;
+        case core::StartRefusal::kStopPressed: return "cycle start refused: the operator stop is pressed";
+        case core::StartRefusal::kRepeatNotReady: return "continuous cycling ended: the next cycle cannot start" + unmet;
+      }
+      return "cycle start refused";
+    }
+    case core::EventCode::kSoftCommandRefused:
+      return fmt::format("soft command '{}' refused: operator.soft_commands does not enable it",
+                         core::soft_command_name(static_cast<core::SoftCommand>(e.subject)));
+    case core::EventCode::kTwoHandBlocked:
+      return e.subject < m.two_hand_count
+                 ? fmt::format("two-hand '{}': the second hand came too late; release both and try again",
+                               name_view(m.two_hand[e.subject].name))
+                 : "two-hand: the second hand came too late";
+    case core::EventCode::kTwoHandReleased:
+      return e.subject < m.two_hand_count
+                 ? fmt::format("two-hand '{}' released during the cycle it started: its release_holds motions stay "
+                               "blocked until a new two-hand start",
+                               name_view(m.two_hand[e.subject].name))
+                 : "two-hand released during the cycle it started: its release_holds motions stay blocked";
+    default:
+      return "";
+  }
+}
+
 void FaultLog::observe(const core::Diagnostics& d) {
   const double t_s = static_cast<double>(scans_++) * period_s_;
+  // Events pushed since the previous scan (the ring holds the most recent
+  // kEventLogCapacity; more in one scan than that cannot happen in practice).
+  const std::uint32_t fresh = d.events.total - events_seen_;
+  const std::uint32_t held = d.events.size();
+  for (std::uint32_t i = fresh > held ? 0 : held - fresh; i < held; ++i) {
+    std::string text = describe_notice(machine_, d.events.at(i));
+    if (!text.empty()) notices_.push_back(NoticeEntry{t_s, std::move(text)});
+  }
+  events_seen_ = d.events.total;
   std::vector<std::uint32_t> now;
   for (std::uint8_t i = 0; i < d.fault_count; ++i) {
     const core::Fault& f = d.faults[i];

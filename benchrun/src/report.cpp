@@ -156,6 +156,8 @@ nlohmann::json summary_json(const RunReport& r) {
   for (const FaultEntry& f : r.faults) {
     j["faults"].push_back({{"t_s", f.t_s}, {"stop_category", f.category}, {"what", f.text}});
   }
+  j["notices"] = nlohmann::json::array();
+  for (const NoticeEntry& n : r.notices) j["notices"].push_back({{"t_s", n.t_s}, {"what", n.text}});
   nlohmann::json figures;
   if (r.figures != nullptr) {
     figures["cycle_times_s"] = r.figures->cycle_times_s();
@@ -195,6 +197,13 @@ std::string report_html(const RunReport& r) {
     html += "<table><tr><th>time</th><th>stop category</th><th>fault</th></tr>\n";
     for (const FaultEntry& f : r.faults) {
       html += fmt::format("<tr><td>{:.3f} s</td><td>{}</td><td>{}</td></tr>\n", f.t_s, f.category, escape(f.text));
+    }
+    html += "</table>\n";
+  }
+  if (!r.notices.empty()) {
+    html += "<h2>Operator actions the core did not act on</h2>\n<table><tr><th>time</th><th>notice</th></tr>\n";
+    for (const NoticeEntry& n : r.notices) {
+      html += fmt::format("<tr><td>{:.3f} s</td><td>{}</td></tr>\n", n.t_s, escape(n.text));
     }
     html += "</table>\n";
   }

@@ -78,6 +78,9 @@ int run_replay(const ReplayOptions& o) {
     }
   }
   std::cout << fmt::format("\n{} scans, {:.3f} s simulated\n", outcome.scans, scenario->duration_s);
+  for (const auto& n : fault_log.notices()) {
+    std::cout << fmt::format("  notice at {:.3f} s: {}\n", n.t_s, n.text);
+  }
   for (const auto& f : fault_log.entries()) {
     std::cout << fmt::format("  fault at {:.3f} s (stop category {}): {}\n", f.t_s, f.category, f.text);
   }

@@ -101,6 +101,7 @@ int run_sim(const SimOptions& o) {
   report.completed = true;
   report.expectations = checker.results();
   report.faults = fault_log.entries();
+  report.notices = fault_log.notices();
   report.figures = &figures;
   report.plots = &plots;
   std::ofstream summary_file(out.file("summary.json"), std::ios::binary);
@@ -127,6 +128,9 @@ int run_sim(const SimOptions& o) {
   std::cout << fmt::format("  {:4}  {:<44} {}\n", "", "expectation", "observed");
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<44} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
+  }
+  for (const auto& n : fault_log.notices()) {
+    std::cout << fmt::format("  notice at {:.3f} s: {}\n", n.t_s, n.text);
   }
   for (const auto& f : fault_log.entries()) {
     std::cout << fmt::format("  fault at {:.3f} s (stop category {}): {}\n", f.t_s, f.category, f.text);

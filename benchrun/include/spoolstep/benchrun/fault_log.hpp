@@ -22,7 +22,20 @@ struct FaultEntry {
   std::uint8_t category = 0;
 };
 
-/// Collects each fault once, when it first appears (again after a reset).
+/// An operator action the core did not act on (a refused cycle start or soft
+/// command, a late second hand, a hand released that held the cycle).
+struct NoticeEntry {
+  double t_s = 0.0;
+  std::string text;
+};
+
+/// One sentence for an event of `machine` an operator should see, or "" for
+/// events that are not notices (state and step changes, faults: those are
+/// in the trace and the fault list).
+std::string describe_notice(const core::MachineConfig& machine, const core::Event& event);
+
+/// Collects each fault once, when it first appears (again after a reset),
+/// and every notice from the core's event log.
 class FaultLog final : public runtime::ScanObserver {
  public:
   FaultLog(const core::MachineConfig& machine, double period_s) : machine_(machine), period_s_(period_s) {}
@@ -30,6 +43,8 @@ class FaultLog final : public runtime::ScanObserver {
   void observe(const core::Diagnostics& diagnostics);
   const std::vector<FaultEntry>& entries() const { return entries_; }
   void after_scan(const runtime::ScanView& scan) override { observe(scan.diagnostics); }
+  /// Refused starts and commands and the like, in the order they happened.
+  const std::vector<NoticeEntry>& notices() const { return notices_; }
 
  private:
   const core::MachineConfig& machine_;
@@ -37,6 +52,8 @@ class FaultLog final : public runtime::ScanObserver {
   std::uint64_t scans_ = 0;
   std::vector<std::uint32_t> active_;  // code << 16 | subject of the faults seen in the previous scan
   std::vector<FaultEntry> entries_;
+  std::uint32_t events_seen_ = 0;
+  std::vector<NoticeEntry> notices_;
 };
 
 }  // namespace spoolstep::benchrun

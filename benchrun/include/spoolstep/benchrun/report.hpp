@@ -28,6 +28,7 @@ struct RunReport {
   std::string run_error;
   std::vector<ExpectationResult> expectations;
   std::vector<FaultEntry> faults;  ///< every fault the core raised, in order
+  std::vector<NoticeEntry> notices;  ///< refused starts and commands, in order
   const FigureCollector* figures = nullptr;
   const PlotCollector* plots = nullptr;
 };
