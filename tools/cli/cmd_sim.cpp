@@ -10,6 +10,7 @@
 
 #include "command_registry.hpp"
 #include "run_common.hpp"
+#include "staged_directory.hpp"
 #include "spoolstep/benchrun/report.hpp"
 #include "spoolstep/benchrun/fault_log.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
@@ -63,7 +64,7 @@ int run_sim(const SimOptions& o) {
       }
     }
   }
-  benchrun::StagedDirectory out(o.out_dir);
+  StagedDirectory out(o.out_dir);
   if (!out.error().empty()) {
     std::cerr << "spoolstep sim: " << out.error() << "\n";
     return out.write_failed() ? kExitInternal : kExitBadInput;
