@@ -142,6 +142,14 @@ nlohmann::json summary_json(const RunReport& r) {
   j["scans"] = r.scans;
   j["completed"] = r.completed;
   if (!r.run_error.empty()) j["run_error"] = r.run_error;
+  // What the numbers in trace.csv's state and step columns stand for.
+  if (r.plots != nullptr) {
+    nlohmann::json names = nlohmann::json::object();
+    for (const Signal& s : r.plots->signals()) {
+      if (!s.value_names.empty()) names[s.name] = s.value_names;
+    }
+    j["value_names"] = std::move(names);
+  }
   bool all = r.completed;
   j["expectations"] = nlohmann::json::array();
   for (const ExpectationResult& e : r.expectations) {

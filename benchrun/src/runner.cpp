@@ -1,4 +1,5 @@
 #include "spoolstep/benchrun/runner.hpp"
+#include "spoolstep/benchrun/sinks.hpp"
 
 #include <cmath>
 
@@ -169,8 +170,12 @@ int find_signal(const std::vector<Signal>& signals, const std::string& name) {
 
 std::vector<Signal> core_signals(const core::MachineConfig& m) {
   std::vector<Signal> s;
-  s.push_back({"state", "", SignalKind::kInteger, SignalGroup::kState});
-  s.push_back({"step", "", SignalKind::kInteger, SignalGroup::kState});
+  std::vector<std::string> states;
+  for (std::uint8_t k = 0; k < core::kMachineStateCount; ++k) states.emplace_back(state_name(k));
+  std::vector<std::string> steps;
+  for (std::uint8_t k = 0; k < m.step_count; ++k) steps.push_back(str(m.steps[k].name));
+  s.push_back({"state", "", SignalKind::kInteger, SignalGroup::kState, std::move(states)});
+  s.push_back({"step", "", SignalKind::kInteger, SignalGroup::kState, std::move(steps)});
   s.push_back({"faults", "", SignalKind::kInteger, SignalGroup::kState});
   s.push_back({"pump", "", SignalKind::kInteger, SignalGroup::kState});
   s.push_back({"cycles", "", SignalKind::kInteger, SignalGroup::kState});

@@ -84,6 +84,12 @@ void VcdWriter::begin(const std::vector<Signal>& signals) {
     std::string name = s.name;
     std::replace(name.begin(), name.end(), '.', '_');
     const bool integer = s.kind == SignalKind::kInteger;
+    if (!s.value_names.empty()) {
+      // A waveform viewer shows the number; the comment says what it means.
+      out_ << "$comment " << name << " values:";
+      for (std::size_t v = 0; v < s.value_names.size(); ++v) out_ << ' ' << v << '=' << s.value_names[v];
+      out_ << " $end\n";
+    }
     out_ << "$var " << (integer ? "integer 32 " : "wire 1 ") << id << ' ' << name << " $end\n";
     columns_.push_back(static_cast<int>(i));
     ids_.push_back(id);

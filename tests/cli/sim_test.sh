@@ -56,6 +56,11 @@ grep -q 'di_guard_door_closed' "$work/run1/io.vcd" || fail "VCD lacks the guard 
 
 grep -q '"passed": true' "$work/run1/summary.json" || fail "summary does not say passed"
 grep -q '"cycle_times_s"' "$work/run1/summary.json" || fail "summary lacks the cycle time"
+# The state and step columns are numbers; the run says what each one means,
+# in the machine file's own step names.
+grep -q '^\$comment step values: 0=wait_start 1=clamp 2=fast_approach' "$work/run1/io.vcd" || fail "io.vcd does not name the step values"
+grep -q '^\$comment state values: 0=power_up 1=manual' "$work/run1/io.vcd" || fail "io.vcd does not name the state values"
+/usr/bin/python3 -c "import json,sys; v=json.load(open(sys.argv[1]))['value_names']; assert v['step'][1]=='clamp' and v['state'][7]=='faulted', v" "$work/run1/summary.json" || fail "summary.json lacks value_names"
 grep -q '<svg' "$work/run1/report.html" || fail "report has no plots"
 grep -q 'not a safety-rated control system' "$work/run1/report.html" || fail "report lacks the caution"
 

@@ -31,6 +31,9 @@ struct Signal {
   std::string unit;  ///< "" for digital and integer signals
   SignalKind kind = SignalKind::kAnalog;
   SignalGroup group = SignalGroup::kOther;
+  /// Names of an integer signal's values, by value ("state": the machine
+  /// states; "step": the machine file's step names); empty otherwise.
+  std::vector<std::string> value_names = {};
 };
 
 /// Receives the rows of a run.
