@@ -79,15 +79,17 @@ std::string describe_notice(const core::MachineConfig& m, const core::Event& e) 
                          core::soft_command_name(static_cast<core::SoftCommand>(e.subject)));
     case core::EventCode::kTwoHandBlocked:
       return e.subject < m.two_hand_count
-                 ? fmt::format("two-hand '{}': the second hand came too late; release both and try again",
+                 ? fmt::format("two-hand '{}': the second hand did not follow within the sync time; no start; "
+                               "release both and try again",
                                name_view(m.two_hand[e.subject].name))
-                 : "two-hand: the second hand came too late";
+                 : "two-hand: the second hand did not follow within the sync time; no start";
     case core::EventCode::kTwoHandReleased:
       return e.subject < m.two_hand_count
-                 ? fmt::format("two-hand '{}' released during the cycle it started: its release_holds motions stay "
-                               "blocked until a new two-hand start",
+                 ? fmt::format("two-hand '{}' let go during the cycle it started: from here its release_holds "
+                               "motions are blocked until a new two-hand start (expected after the hazardous stroke; "
+                               "a hold if one of them is still to come)",
                                name_view(m.two_hand[e.subject].name))
-                 : "two-hand released during the cycle it started: its release_holds motions stay blocked";
+                 : "two-hand let go during the cycle it started: its release_holds motions are blocked";
     default:
       return "";
   }

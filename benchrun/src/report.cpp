@@ -206,7 +206,7 @@ std::string report_html(const RunReport& r) {
     html += "</table>\n";
   }
   if (!r.notices.empty()) {
-    html += "<h2>Operator actions the core did not act on</h2>\n<table><tr><th>time</th><th>notice</th></tr>\n";
+    html += "<h2>Notices: operator actions the core refused, and two-hand releases</h2>\n<table><tr><th>time</th><th>notice</th></tr>\n";
     for (const NoticeEntry& n : r.notices) {
       html += fmt::format("<tr><td>{:.3f} s</td><td>{}</td></tr>\n", n.t_s, escape(n.text));
     }

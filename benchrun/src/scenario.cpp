@@ -290,7 +290,8 @@ class Reader {
     if (!kind) return;
     Expectation x;
     x.json_path = path;
-    x.name = text(e, path, "name", false).value_or(*kind);
+    // Printed in the run's table and the report: cut and escaped like any text echoed from a file.
+    x.name = printable(text(e, path, "name", false).value_or(*kind), 2 * jsondoc::kMaxEchoedChars);
     auto signal = [&]() -> bool {
       const auto s = text(e, path, "signal", true);
       if (!s) return false;
@@ -375,7 +376,7 @@ class Reader {
     const auto format = text(doc, "", "format", true);
     if (format && *format != kScenarioFormatTag)
       error("/format", fmt::format("unsupported format '{}'", printable(*format)), fmt::format("This version reads \"{}\".", kScenarioFormatTag));
-    scenario->description = text(doc, "", "description", false).value_or("");
+    scenario->description = printable(text(doc, "", "description", false).value_or(""), 4 * jsondoc::kMaxEchoedChars);
     const auto duration = number(doc, "", "duration_s", 0.001, 86400.0, true);
     scenario->duration_s = duration.value_or(0.0);
     if (doc.contains("initial")) {

@@ -279,12 +279,15 @@ class Loader {
            fmt::format("Write a number{}{} without quotes.", p.unit.empty() ? "" : " in ", p.unit));
       return std::nullopt;
     }
-    if (p.type == ParamType::kInteger && !j->is_number_integer()) {
+    const double value = j->get<double>();
+    // 20.0 and 2e1 are whole numbers too (JSON has one number type); a value
+    // too large for any integer type is reported against the range below.
+    if (p.type == ParamType::kInteger && std::isfinite(value) && std::abs(value) < 9.0e15 &&
+        value != std::floor(value)) {
       fail(field, fmt::format("must be a whole number (got {})", got(*j)),
            fmt::format("Write a whole number{}{}.", p.unit.empty() ? "" : " of ", p.unit));
       return std::nullopt;
     }
-    const double value = j->get<double>();
     if (value < p.min || value > p.max) {
       fail(field, fmt::format("must be between {} and {} (got {})", number_text(p.min), number_text(p.max), got(*j)),
            p.limit_note.empty() ? std::string("Fix the value.") : std::string(p.limit_note));

@@ -295,7 +295,7 @@ void write_valve_kind_table(std::ostream& out) {
       << "Printed from `kValveKinds` in firmware_core/include/spoolstep/core/valve_kinds.hpp. A valve gives\n"
       << "the fields of its kind (outputs required; settings as in the table above) and no other kind's.\n\n"
       << "| `valve/kind` | Valve | Positions | Meters (ramps) | Fields of its own (outputs, settings) |\n"
-      << "|---|---|---|---|---|---|\n";
+      << "|---|---|---|---|---|\n";
   for (const core::ValveKindRow& row : core::kValveKinds) {
     std::string fields;
     for (const std::string_view field : valve_keys_of(row)) {

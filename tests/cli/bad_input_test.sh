@@ -95,6 +95,34 @@ expect_code 2 $? "export with a bad plant section"
 grep -q "/plant/pump/speed_rpm" "$work/err.txt" || fail "export does not name the plant field: $(cat "$work/err.txt")"
 [ -e "$work/config.hpp" ] && fail "export wrote a header for a file check rejects"
 
+# replay refuses the same broken plant section (one file, one answer).
+"$bin" replay "$work/badplant.json" "$src/config/scenarios/press_cell_replay.json" >/dev/null 2>"$work/err.txt"
+expect_code 2 $? "replay with a bad plant section"
+grep -q "/plant/pump/speed_rpm" "$work/err.txt" || fail "replay does not name the plant field: $(cat "$work/err.txt")"
+
+# A whole number may be written 20.0 (JSON has one number type).
+$py - "$machine" "$work/float_int.json" <<'PY'
+import sys
+text = open(sys.argv[1]).read().replace('"watchdog_ms": 20', '"watchdog_ms": 20.0', 1)
+assert '20.0' in text
+open(sys.argv[2], 'w').write(text)
+PY
+"$bin" check "$work/float_int.json" >/dev/null 2>"$work/err.txt"
+expect_code 0 $? "check with watchdog_ms 20.0: $(cat "$work/err.txt")"
+
+# Text from a scenario that the run prints (an expectation's name) is cut
+# and escaped too: no escape sequence or forged line reaches the terminal.
+$py - "$src/config/scenarios/press_cell_replay.json" "$work/evil_names.json" <<'PY'
+import json, sys
+s = json.load(open(sys.argv[1]))
+s['expect'][0]['name'] = '\u001b[31mRED\u001b[0m\nFAKE pass line' + 'x' * 1000000
+json.dump(s, open(sys.argv[2], 'w'))
+PY
+"$bin" replay "$machine" "$work/evil_names.json" >"$work/out.txt" 2>&1
+grep -q $'\x1b' "$work/out.txt" && fail "an escape character from a scenario name reached the terminal"
+grep -q '^FAKE pass line' "$work/out.txt" && fail "a newline in a scenario name forged an output line"
+[ "$(wc -c <"$work/out.txt")" -lt 20000 ] || fail "a 1 MB expectation name is printed whole"
+
 # A scenario past its size limit, and a duplicate key in one.
 head -c 4300000 /dev/zero | tr '\0' ' ' >"$work/big_scenario.json"
 "$bin" sim "$machine" "$work/big_scenario.json" --out "$work/run" -q >/dev/null 2>"$work/err.txt"

@@ -31,6 +31,15 @@ TEST(Printable, EscapesControlCharactersAndDelete) {
   EXPECT_EQ(printable("a\nb\tc\x1b[0m\x7f"), "a\\nb\\tc\\x1B[0m\\x7F");
 }
 
+TEST(Printable, EscapesC1ControlsSeparatorsAndBidiOverrides) {
+  // U+0085 (NEL) and U+009B (CSI) are C1 controls; U+2028 breaks a line;
+  // U+202E reverses the text after it (UTF-8 encodings per RFC 3629).
+  EXPECT_EQ(printable("a\xC2\x85" "b\xC2\x9B" "c\xE2\x80\xA8" "d\xE2\x80\xAE" "e\xE2\x81\xA6" "f"),
+            "a\\u0085b\\u009Bc\\u2028d\\u202Ee\\u2066f");
+  // Ordinary non-ASCII text stays as it is.
+  EXPECT_EQ(printable("Pr\xC3\xBC" "fdruck \xE2\x80\x93 ok"), "Pr\xC3\xBC" "fdruck \xE2\x80\x93 ok");
+}
+
 TEST(Printable, CutsLongTextAndSaysHowLongItWas) {
   const std::string name(1'000'000, 'x');
   const std::string shown = printable(name);

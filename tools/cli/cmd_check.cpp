@@ -89,7 +89,7 @@ const bool kRegistered = register_command(Command{
       sub.add_flag("--plant-reference", options->plant_reference,
                    "Print the parameter table of the plant section (Markdown, as in docs/plant-model.md)");
       sub.footer("Exit codes: 0 ok, 2 the machine file (control part or plant section) has errors, each printed to "
-                 "stderr with its JSON path; 3 internal error (the core disagrees with the loader: a bug).");
+                 "stderr with its JSON path (a configuration the control core itself rejects included).");
       return [options] { return run_check(*options); };
     },
     "Check a machine file and report every problem in it"});

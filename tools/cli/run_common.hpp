@@ -10,6 +10,7 @@
 #include "spoolstep/benchrun/runner.hpp"
 #include "spoolstep/benchrun/scenario.hpp"
 #include "spoolstep/core/controller.hpp"
+#include "spoolstep/hostsim/plant.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 #include "spoolstep/runtime/scan_loop.hpp"
 
@@ -24,6 +25,20 @@ inline std::unique_ptr<machine_file::LoadedMachine> load_machine_or_report(const
     return nullptr;
   }
   return std::move(result.machine);
+}
+
+/// True when the machine file's plant section (if it has one) builds; prints
+/// every problem otherwise. A command that does not run the plant (replay)
+/// still refuses a file whose plant section is broken, so that one file gets
+/// one answer from every command.
+inline bool plant_section_ok_or_report(const machine_file::LoadedMachine& machine, const std::string& path,
+                                       const char* command) {
+  if (machine.plant.is_null()) return true;
+  hostsim::BuildResult built = hostsim::build_plant(machine.plant, machine.config, path);
+  const auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built);
+  if (errors == nullptr) return true;
+  for (const auto& e : *errors) std::cerr << "spoolstep " << command << ": " << e.to_string() << "\n";
+  return false;
 }
 
 /// Loads a scenario against a machine; prints every error and returns null on failure.

@@ -48,6 +48,20 @@ std::string printable(std::string_view text, std::size_t max_chars) {
   out.reserve(keep + 16);
   for (std::size_t i = 0; i < keep; ++i) {
     const auto c = static_cast<unsigned char>(text[i]);
+    const auto next = i + 1 < keep ? static_cast<unsigned char>(text[i + 1]) : 0U;
+    const auto third = i + 2 < keep ? static_cast<unsigned char>(text[i + 2]) : 0U;
+    // UTF-8 (RFC 3629) encodings of the C1 controls U+0080..U+009F, and of
+    // the separators and bidirectional controls that can reorder or break a
+    // terminal line: U+2028/2029, U+202A..U+202E, U+2066..U+2069.
+    const bool c1 = c == 0xC2U && next >= 0x80U && next <= 0x9FU;
+    const bool format = c == 0xE2U && ((next == 0x80U && third >= 0xA8U && third <= 0xAEU) ||
+                                       (next == 0x81U && third >= 0xA6U && third <= 0xA9U));
+    if (c1 || format) {
+      const unsigned code = c1 ? next : (next == 0x80U ? 0x2000U : 0x2040U) + (third & 0x3FU);
+      out += fmt::format("\\u{:04X}", code);
+      i += c1 ? 1 : 2;
+      continue;
+    }
     if (c == '\n') {
       out += "\\n";
     } else if (c == '\t') {
