@@ -59,6 +59,14 @@ TEST(DidYouMean, SuggestsTheClosestNameForATypo) {
             "Did you mean 'guard_closed'?");
 }
 
+TEST(DidYouMean, NeverSuggestsTheSignalOfOppositeMeaning) {
+  // A typo must not be "corrected" into the opposite signal.
+  EXPECT_EQ(did_you_mean("guard_door_open", {"guard_door_closed"}, "none"), "none");
+  EXPECT_EQ(did_you_mean("estop_nok", {"estop_ok"}, "none"), "none");
+  EXPECT_EQ(did_you_mean("press_up", {"press_down"}, "none"), "none");
+  EXPECT_EQ(did_you_mean("guard_door_clsoed", {"guard_door_closed"}, "none"), "Did you mean 'guard_door_closed'?");
+}
+
 TEST(DidYouMean, FallsBackWhenNothingIsClose) {
   EXPECT_EQ(did_you_mean("pump_pressure", {"guard_closed", "estop_ok"}, "Use a declared name."),
             "Use a declared name.");

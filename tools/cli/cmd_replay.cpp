@@ -9,6 +9,7 @@
 #include "command_registry.hpp"
 #include "run_common.hpp"
 #include "spoolstep/benchrun/fault_log.hpp"
+#include "spoolstep/benchrun/report.hpp"
 #include "spoolstep/benchrun/sinks.hpp"
 
 namespace spoolstep::cli {
@@ -88,6 +89,7 @@ int run_replay(const ReplayOptions& o) {
   for (const auto& r : checker.results()) {
     std::cout << fmt::format("  {:4}  {:<40} {}\n", r.passed ? "pass" : "FAIL", r.name, r.detail);
   }
+  std::cout << "Caution: " << benchrun::kSafetyCaution << "\n";
   return checker.all_passed() ? kExitOk : kExitFailed;
 }
 

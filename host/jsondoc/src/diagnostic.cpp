@@ -93,6 +93,46 @@ std::size_t edit_distance(std::string_view a, std::string_view b) {
   return row[b.size()];
 }
 
+std::vector<std::string_view> words_of(std::string_view name) {
+  std::vector<std::string_view> words;
+  std::size_t start = 0;
+  while (start <= name.size()) {
+    const std::size_t end = std::min(name.find('_', start), name.size());
+    words.push_back(name.substr(start, end - start));
+    start = end + 1;
+  }
+  return words;
+}
+
+/// Word pairs of opposite meaning in signal names (common practice, no
+/// source). Suggesting "guard_door_closed" for "guard_door_open" would turn
+/// a typo into the opposite signal, so such a pair is never a suggestion.
+bool opposite_words(std::string_view a, std::string_view b) {
+  static constexpr std::string_view kPairs[][2] = {
+      {"open", "closed"}, {"open", "close"}, {"ok", "nok"}, {"on", "off"}, {"extend", "retract"},
+      {"extended", "retracted"}, {"up", "down"}, {"high", "low"}, {"in", "out"}, {"left", "right"},
+      {"start", "stop"}, {"enable", "disable"}, {"enabled", "disabled"}, {"min", "max"}, {"top", "bottom"},
+      {"forward", "reverse"}, {"raise", "lower"}, {"lock", "unlock"}, {"clamp", "unclamp"}, {"true", "false"}};
+  for (const auto& pair : kPairs) {
+    if ((a == pair[0] && b == pair[1]) || (a == pair[1] && b == pair[0])) return true;
+  }
+  return false;
+}
+
+/// True when `a` and `b` differ only in words of opposite meaning.
+bool means_the_opposite(std::string_view a, std::string_view b) {
+  const auto wa = words_of(a);
+  const auto wb = words_of(b);
+  if (wa.size() != wb.size()) return false;
+  bool opposite = false;
+  for (std::size_t i = 0; i < wa.size(); ++i) {
+    if (wa[i] == wb[i]) continue;
+    if (!opposite_words(wa[i], wb[i])) return false;
+    opposite = true;
+  }
+  return opposite;
+}
+
 }  // namespace
 
 std::optional<std::string> closest(std::string_view word, const std::vector<std::string>& candidates) {
@@ -100,7 +140,7 @@ std::optional<std::string> closest(std::string_view word, const std::vector<std:
   std::optional<std::string> best;
   std::size_t best_distance = std::max<std::size_t>(2, word.size() / 3) + 1;
   for (const auto& candidate : candidates) {
-    if (candidate.size() > kMaxEchoedChars) continue;
+    if (candidate.size() > kMaxEchoedChars || means_the_opposite(word, candidate)) continue;
     const std::size_t d = edit_distance(word, candidate);
     if (d < best_distance) {
       best_distance = d;
