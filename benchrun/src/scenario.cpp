@@ -34,6 +34,18 @@ std::optional<core::SoftCommand> on_off_command(const std::string& name) {
   return std::nullopt;
 }
 
+const char* kind_noun(NamedKind kind) {
+  switch (kind) {
+    case NamedKind::kDigitalInput: return "digital input";
+    case NamedKind::kAnalogInput: return "analog input";
+    case NamedKind::kCoil: return "coil";
+    case NamedKind::kPropOutput: return "proportional output";
+    case NamedKind::kFunction: return "function";
+    case NamedKind::kStep: return "step";
+  }
+  return "name";
+}
+
 std::vector<std::string> on_off_command_names() {
   std::vector<std::string> names;
   for (const core::SoftCommandRow& row : core::kSoftCommandTable) {
@@ -113,20 +125,20 @@ class Reader {
     return parent.at(key).get<std::string>();
   }
 
-  template <typename Find>
-  std::optional<std::uint8_t> resolve(const std::string& name, const std::string& path, const char* what,
-                                      NamedKind kind, Find find) {
-    const auto index = find(machine_, name);
-    if (!index) {
-      error(path, fmt::format("no {} named '{}' in the machine file", what, printable(name)),
-            did_you_mean(name, machine_file::names_of(machine_, kind),
-                         fmt::format("Use a {} the machine file declares.", what)));
-    }
-    return index;
+  /// Index of the named item of `kind` in the machine file, or an error with
+  /// a did-you-mean hint and nullopt.
+  std::optional<std::uint8_t> resolve(const std::string& name, const std::string& path, NamedKind kind) {
+    const std::vector<std::string> names = machine_file::names_of(machine_, kind);
+    const auto it = std::find(names.begin(), names.end(), name);
+    if (it != names.end()) return static_cast<std::uint8_t>(it - names.begin());
+    const char* what = kind_noun(kind);
+    error(path, fmt::format("no {} named '{}' in the machine file", what, printable(name)),
+          did_you_mean(name, names, fmt::format("Use a {} the machine file declares.", what)));
+    return std::nullopt;
   }
 
   std::optional<std::uint8_t> digital(const std::string& name, const std::string& path, bool settable) {
-    const auto index = resolve(name, path, "digital input", NamedKind::kDigitalInput, machine_file::find_digital_input);
+    const auto index = resolve(name, path, NamedKind::kDigitalInput);
     if (index && settable && plant_ != nullptr && *index < plant_->plant_digital.size() && plant_->plant_digital[*index]) {
       error(path, fmt::format("digital input '{}' is driven by the plant model's sensor", name),
             "Change the plant instead (a plant fault), or remove the sensor wiring.");
@@ -136,7 +148,7 @@ class Reader {
   }
 
   std::optional<std::uint8_t> analog(const std::string& name, const std::string& path) {
-    const auto index = resolve(name, path, "analog input", NamedKind::kAnalogInput, machine_file::find_analog_input);
+    const auto index = resolve(name, path, NamedKind::kAnalogInput);
     if (index && plant_ != nullptr && *index < plant_->plant_analog.size() && plant_->plant_analog[*index]) {
       error(path, fmt::format("analog input '{}' is driven by the plant model's sensor", name),
             "Inject a sensor fault on the plant instead.");
@@ -220,7 +232,7 @@ class Reader {
       if (!e["analog_healthy"].is_object()) error(p, "must be an object of analog input name to true/false", "Write {\"press_pressure\": false}.");
       else for (const auto& [name, v] : e["analog_healthy"].items()) {
         if (!v.is_boolean()) { error(p + "/" + name, "must be true or false", "Write true or false."); continue; }
-        if (const auto i = resolve(name, p + "/" + name, "analog input", NamedKind::kAnalogInput, machine_file::find_analog_input)) {
+        if (const auto i = resolve(name, p + "/" + name, NamedKind::kAnalogInput)) {
           TimelineEvent ev; ev.kind = TimelineEvent::Kind::kAnalogHealth; ev.index = *i; ev.value = v.get<bool>() ? 1 : 0;
           add(ev, p + "/" + name);
         }
@@ -247,7 +259,7 @@ class Reader {
       const std::string p = path + "/jog";
       if (!e["jog"].is_object()) error(p, "must be an object of function name to extend/retract/none", "Write {\"press\": \"extend\"}.");
       else for (const auto& [name, v] : e["jog"].items()) {
-        const auto f = resolve(name, p + "/" + name, "function", NamedKind::kFunction, machine_file::find_function);
+        const auto f = resolve(name, p + "/" + name, NamedKind::kFunction);
         const std::string d = v.is_string() ? v.get<std::string>() : "";
         if (d != "extend" && d != "retract" && d != "none") { error(p + "/" + name, "must be \"extend\", \"retract\" or \"none\"", "Jog is hold-to-run: set \"none\" to release."); continue; }
         if (!f) continue;
@@ -314,7 +326,7 @@ class Reader {
     if (*kind == "step_reached") {
       x.kind = Expectation::Kind::kStepReached;
       if (const auto s = text(e, path, "step", true)) {
-        if (const auto i = resolve(*s, path + "/step", "step", NamedKind::kStep, machine_file::find_step)) x.step = *i;
+        if (const auto i = resolve(*s, path + "/step", NamedKind::kStep)) x.step = *i;
       }
       x.before_s = number(e, path, "before_s", 0.0, 1e6, true).value_or(0.0);
     } else if (*kind == "state_at") {

@@ -1647,19 +1647,16 @@ LoadResult load_document(jsondoc::ReadResult read, const std::string& display_na
     Loader loader(display_name, machine->config);
     loader.load(read.root);
     result.errors.insert(result.errors.end(), loader.errors.begin(), loader.errors.end());
-    if (!jsondoc::has_error(result.errors)) {
-      // The core checks the configuration again on its own and has the last
-      // word: a configuration it would hold safe from the first scan is bad
-      // input for every command, worded the same everywhere.
-      const core::Status status = core::validate_config(machine->config);
-      if (!status.is_ok()) {
-        result.errors.push_back(LoadError{display_name, "", runtime::core_rejection_text(status),
-                                          "Fix the machine file; if no error above names the field, please report "
-                                          "this with the file (the loader should have named it)."});
-        return result;
-      }
-    }
-    if (!jsondoc::has_error(result.errors)) {
+    if (jsondoc::has_error(result.errors)) return result;
+    // The core checks the configuration again on its own and has the last
+    // word: a configuration it would hold safe from the first scan is bad
+    // input for every command, worded the same everywhere.
+    const core::Status status = core::validate_config(machine->config);
+    if (!status.is_ok()) {
+      result.errors.push_back(LoadError{display_name, "", runtime::core_rejection_text(status),
+                                        "Fix the machine file; if no error above names the field, please report "
+                                        "this with the file (the loader should have named it)."});
+    } else {
       machine->plant = std::move(loader.plant);
       machine->source_path = display_name;
       result.machine = std::move(machine);

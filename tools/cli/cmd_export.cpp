@@ -27,9 +27,9 @@
 #include <fmt/format.h>
 
 #include "command_registry.hpp"
+#include "run_common.hpp"
 #include "spoolstep/core/config_fields.hpp"
 #include "spoolstep/core/controller.hpp"
-#include "spoolstep/hostsim/plant.hpp"
 #include "spoolstep/machine_file/machine_file.hpp"
 
 namespace spoolstep::cli {
@@ -331,15 +331,7 @@ int run_export(const ExportOptions& options) {
   const MachineConfig& config = result.machine->config;
   // The plant section is checked as 'check' checks it: a file export accepts
   // is a file check accepts, so a bench run of the same file cannot fail on it.
-  if (!result.machine->plant.is_null()) {
-    hostsim::BuildResult built = hostsim::build_plant(result.machine->plant, config, options.machine_file);
-    if (auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built)) {
-      for (const auto& e : *errors) std::cerr << e.to_string() << "\n";
-      std::cerr << fmt::format("{}: {} error{} in the plant section; nothing written\n", options.machine_file,
-                               errors->size(), errors->size() == 1 ? "" : "s");
-      return kExitBadInput;
-    }
-  }
+  if (!plant_section_ok_or_report(*result.machine, options.machine_file, "", "nothing written")) return kExitBadInput;
   const std::string header = render_header(options, config);
   std::error_code same_ec;
   if (!options.output.empty() && std::filesystem::exists(options.output, same_ec) &&

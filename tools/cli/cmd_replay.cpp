@@ -24,7 +24,7 @@ struct ReplayOptions {
 
 int run_replay(const ReplayOptions& o) {
   auto machine = load_machine_or_report(o.machine_path, "replay");
-  if (machine && !plant_section_ok_or_report(*machine, o.machine_path, "replay")) return kExitBadInput;
+  if (machine && !plant_section_ok_or_report(*machine, o.machine_path, "spoolstep replay: ")) return kExitBadInput;
   if (!machine) return kExitBadInput;
   auto scenario = load_scenario_or_report(o.timeline_path, machine->config, nullptr, "replay");
   if (!scenario) return kExitBadInput;

@@ -31,13 +31,19 @@ inline std::unique_ptr<machine_file::LoadedMachine> load_machine_or_report(const
 /// every problem otherwise. A command that does not run the plant (replay)
 /// still refuses a file whose plant section is broken, so that one file gets
 /// one answer from every command.
+/// Each problem line starts with `prefix`; `consequence` ("nothing written"),
+/// when given, closes the list with a count.
 inline bool plant_section_ok_or_report(const machine_file::LoadedMachine& machine, const std::string& path,
-                                       const char* command) {
+                                       const std::string& prefix, const char* consequence = nullptr) {
   if (machine.plant.is_null()) return true;
   hostsim::BuildResult built = hostsim::build_plant(machine.plant, machine.config, path);
   const auto* errors = std::get_if<std::vector<hostsim::PlantError>>(&built);
   if (errors == nullptr) return true;
-  for (const auto& e : *errors) std::cerr << "spoolstep " << command << ": " << e.to_string() << "\n";
+  for (const auto& e : *errors) std::cerr << prefix << e.to_string() << "\n";
+  if (consequence != nullptr) {
+    std::cerr << path << ": " << errors->size() << " error" << (errors->size() == 1 ? "" : "s")
+              << " in the plant section; " << consequence << "\n";
+  }
   return false;
 }
 
