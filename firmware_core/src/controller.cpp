@@ -228,20 +228,19 @@ void Controller::check_inputs(const InputImage& in, std::uint32_t now_us) {
 }
 
 void Controller::accept_soft_commands(const OperatorCommands& requested, std::uint32_t now_us) {
-  const std::uint16_t enabled = config_->operator_panel.soft_commands;
   commands_ = requested;
-  std::uint16_t refused = 0;
-  for (const SoftCommandRow& row : kSoftCommandTable) {
-    const std::uint16_t bit = soft_command_bit(row.command);
-    if ((enabled & bit) != 0) continue;
-    bool* flag = soft_command_flag(commands_, row.command);
-    if (flag != nullptr) {
-      if (*flag) refused = static_cast<std::uint16_t>(refused | bit);
-      *flag = false;
-    } else {  // jog: one enable for every function's direction
-      for (Direction& d : commands_.jog) {
-        if (d != Direction::kNone) refused = static_cast<std::uint16_t>(refused | bit);
-        d = Direction::kNone;
+  // Almost every scan carries no soft command at all: find that out in one
+  // pass over the flags before walking the table.
+  const std::uint16_t refused =
+      static_cast<std::uint16_t>(soft_commands_given(requested) & ~config_->operator_panel.soft_commands);
+  if (refused != 0) {
+    for (const SoftCommandRow& row : kSoftCommandTable) {
+      if ((refused & soft_command_bit(row.command)) == 0) continue;
+      bool* flag = soft_command_flag(commands_, row.command);
+      if (flag != nullptr) {
+        *flag = false;
+      } else {  // jog: one enable for every function's direction
+        for (Direction& d : commands_.jog) d = Direction::kNone;
       }
     }
   }

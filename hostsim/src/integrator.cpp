@@ -128,11 +128,13 @@ class Evaluator {
   /// d(returned)/dt - sum (A_A - A_B) v, so that the oil balance invariant
   /// holds for J exactly as for f (a grouped difference could not separate
   /// that row, which depends on every state). f0 = f(t, y) on return.
+  /// Every call writes the same entries (the pattern is fixed when the
+  /// network is built), so `jac` must hold zeros everywhere else: zero it
+  /// once, not on every call (a dense fill was a few per cent of a run).
   void grouped_jacobian(const NetworkInputs& in, double t, const double* y, double* jac) {
     ++stats.jacobians;
     std::copy(y, y + n_, x_.begin());
     rhs(in, t, x_.data(), f0_.data());
-    std::fill(jac, jac + n_ * n_, 0.0);
     for (const std::vector<std::size_t>& group : groups_) {
       for (const std::size_t j : group) {
         const double xj = x_[j];
@@ -270,6 +272,40 @@ class OdeintRosenbrock4 final : public Integrator {
   double h_ = 0.0;
 };
 
+// Rows of a sparse matrix that is rebuilt often (J's nonzeros, the factors of
+// W): sized once for the dense worst case, so a rebuild writes entries in
+// place instead of growing vectors.
+struct SparseRows {
+  std::vector<std::size_t> start{0};  // row i is [start[i], start[i + 1])
+  std::vector<std::size_t> col;
+  std::vector<double> val;
+  std::size_t nnz = 0;
+  std::size_t rows = 0;
+
+  void begin(std::size_t max_rows, std::size_t max_nonzeros) {
+    if (start.size() < max_rows + 1) start.resize(max_rows + 1);
+    if (col.size() < max_nonzeros) {
+      col.resize(max_nonzeros);
+      val.resize(max_nonzeros);
+    }
+    nnz = 0;
+    rows = 0;
+    start[0] = 0;
+  }
+  void add(std::size_t c, double v) {
+    col[nnz] = c;
+    val[nnz] = v;
+    ++nnz;
+  }
+  void end_row() { start[++rows] = nnz; }
+  /// sum over row i of val * x[col]
+  double row_dot(std::size_t i, const std::vector<double>& x) const {
+    double s = 0.0;
+    for (std::size_t q = start[i]; q < start[i + 1]; ++q) s += val[q] * x[col[q]];
+    return s;
+  }
+};
+
 // ---------------------------------------------------------------------------
 // ROS2: W k1 = f(y); W k2 = f(y + h k1) - 2 k1; y1 = y + h (3/2 k1 + 1/2 k2),
 // W = I - gamma h J, gamma = 1 + 1/sqrt(2). Embedded first order solution
@@ -312,17 +348,12 @@ class Ros2 final : public Integrator {
         std::copy(eval_.f0().begin(), eval_.f0().end(), f0_.begin());
         f0_known = true;
         // Nonzeros of J by row, for the Jacobian check's product J k1.
-        j_start_.assign(1, 0);
-        j_col_.clear();
-        j_val_.clear();
+        j_.begin(n_, n_ * n_);
         for (std::size_t r = 0; r < n_; ++r) {
           for (std::size_t c = 0; c < n_; ++c) {
-            if (jac_[r * n_ + c] != 0.0) {
-              j_col_.push_back(c);
-              j_val_.push_back(jac_[r * n_ + c]);
-            }
+            if (jac_[r * n_ + c] != 0.0) j_.add(c, jac_[r * n_ + c]);
           }
-          j_start_.push_back(j_col_.size());
+          j_.end_row();
         }
       }
       if (!(dt >= kLuLow * h_lu_ && dt <= kLuHigh * h_lu_)) factor(dt);
@@ -340,8 +371,7 @@ class Ros2 final : public Integrator {
       double jac_miss = 0.0;
       if (jac_age_ > 0) {
         for (std::size_t i = 0; i < n_; ++i) {
-          double jk = 0.0;
-          for (std::size_t q = j_start_[i]; q < j_start_[i + 1]; ++q) jk += j_val_[q] * k1_[j_col_[q]];
+          const double jk = j_.row_dot(i, k1_);
           const double miss = kGamma * hs * (f_[i] - f0_[i] - hs * jk);
           const double sc = atol_[i] + rtol_[i] * std::fabs(y[i]);
           jac_miss = std::max(jac_miss, std::fabs(miss) / sc);
@@ -472,15 +502,9 @@ class Ros2 final : public Integrator {
   // gather (perm_), and the accumulator rows gamma h J_acc are kept sparse.
   void compress(double h) {
     const std::size_t m = m_;
-    l_start_.assign(1, 0);
-    u_start_.assign(1, 0);
-    a_start_.assign(1, 0);
-    l_col_.clear();
-    l_val_.clear();
-    u_col_.clear();
-    u_val_.clear();
-    a_col_.clear();
-    a_val_.clear();
+    l_.begin(m, m * m);
+    u_.begin(m, m * m);
+    a_.begin(n_ - m, (n_ - m) * m);
     diag_inv_.resize(m);
     perm_.resize(m);
     for (std::size_t i = 0; i < m; ++i) perm_[i] = i;
@@ -488,49 +512,42 @@ class Ros2 final : public Integrator {
     for (std::size_t i = 0; i < m; ++i) {
       const double* ri = &lu_[i * m];
       for (std::size_t j = 0; j < i; ++j) {
-        if (ri[j] != 0.0) {
-          l_col_.push_back(j);
-          l_val_.push_back(ri[j]);
-        }
+        if (ri[j] != 0.0) l_.add(j, ri[j]);
       }
-      l_start_.push_back(l_col_.size());
+      l_.end_row();
       for (std::size_t j = i + 1; j < m; ++j) {
-        if (ri[j] != 0.0) {
-          u_col_.push_back(j);
-          u_val_.push_back(ri[j]);
-        }
+        if (ri[j] != 0.0) u_.add(j, ri[j]);
       }
-      u_start_.push_back(u_col_.size());
+      u_.end_row();
       diag_inv_[i] = 1.0 / ri[i];
     }
     for (std::size_t r = m; r < n_; ++r) {
       for (std::size_t c = 0; c < m; ++c) {
         const double v = jac_[r * n_ + c];
-        if (v != 0.0) {
-          a_col_.push_back(c);
-          a_val_.push_back(kGamma * h * v);
-        }
+        if (v != 0.0) a_.add(c, kGamma * h * v);
       }
-      a_start_.push_back(a_col_.size());
+      a_.end_row();
     }
   }
 
   void solve(const std::vector<double>& b, std::vector<double>& x) const {
     const std::size_t m = m_;
     for (std::size_t i = 0; i < m; ++i) x[i] = b[perm_[i]];
+    // Subtracted term by term in the order stored (not via row_dot): the
+    // rounding, and so the trace, stays as it was.
     for (std::size_t i = 1; i < m; ++i) {
       double s = x[i];
-      for (std::size_t q = l_start_[i]; q < l_start_[i + 1]; ++q) s -= l_val_[q] * x[l_col_[q]];
+      for (std::size_t q = l_.start[i]; q < l_.start[i + 1]; ++q) s -= l_.val[q] * x[l_.col[q]];
       x[i] = s;
     }
     for (std::size_t i = m; i-- > 0;) {
       double s = x[i];
-      for (std::size_t q = u_start_[i]; q < u_start_[i + 1]; ++q) s -= u_val_[q] * x[u_col_[q]];
+      for (std::size_t q = u_.start[i]; q < u_.start[i + 1]; ++q) s -= u_.val[q] * x[u_.col[q]];
       x[i] = s * diag_inv_[i];
     }
     for (std::size_t r = m; r < n_; ++r) {
       double s = b[r];
-      for (std::size_t q = a_start_[r - m]; q < a_start_[r - m + 1]; ++q) s += a_val_[q] * x[a_col_[q]];
+      for (std::size_t q = a_.start[r - m]; q < a_.start[r - m + 1]; ++q) s += a_.val[q] * x[a_.col[q]];
       x[r] = s;
     }
   }
@@ -542,8 +559,9 @@ class Ros2 final : public Integrator {
   std::vector<double> jac_, lu_;
   std::vector<std::size_t> piv_;
   std::size_t m_;  // dynamic states: the accumulators are the last n_ - m_
-  std::vector<std::size_t> perm_, l_start_, u_start_, a_start_, l_col_, u_col_, a_col_, j_start_, j_col_;
-  std::vector<double> l_val_, u_val_, a_val_, diag_inv_, j_val_;
+  std::vector<std::size_t> perm_;
+  SparseRows l_, u_, a_, j_;  // factors of W (L strict lower, U strict upper), gamma h J_acc, J
+  std::vector<double> diag_inv_;
   std::vector<double> k1_, k2_, y1_, f_, f0_, ynew_;
   double h_ = 0.0;
   double h_lu_ = 0.0;

@@ -546,5 +546,18 @@ TEST(SoftCommands, TheTableNamesEveryCommandOnceInEnumOrder) {
   }
 }
 
+TEST(SoftCommands, TheGivenMaskHasExactlyTheBitOfEachCommandSet) {
+  for (const SoftCommandRow& row : kSoftCommandTable) {
+    OperatorCommands commands;
+    if (bool* flag = soft_command_flag(commands, row.command)) {
+      *flag = true;
+    } else {
+      commands.jog[kMaxFunctions - 1] = Direction::kExtend;
+    }
+    EXPECT_EQ(soft_commands_given(commands), soft_command_bit(row.command)) << row.name;
+  }
+  EXPECT_EQ(soft_commands_given(OperatorCommands{}), 0u);
+}
+
 }  // namespace
 }  // namespace spoolstep::core

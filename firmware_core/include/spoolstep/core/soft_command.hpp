@@ -73,4 +73,22 @@ constexpr bool* soft_command_flag(OperatorCommands& commands, SoftCommand comman
   return nullptr;
 }
 
+/// The mask of the soft commands given in `commands` (a jog of any function
+/// counts as kJog).
+constexpr std::uint16_t soft_commands_given(const OperatorCommands& commands) {
+  unsigned given = 0;
+  if (commands.reset) given |= soft_command_bit(SoftCommand::kReset);
+  if (commands.cycle_start) given |= soft_command_bit(SoftCommand::kCycleStart);
+  if (commands.cycle_stop) given |= soft_command_bit(SoftCommand::kCycleStop);
+  if (commands.select_auto) given |= soft_command_bit(SoftCommand::kSelectAuto);
+  if (commands.continuous) given |= soft_command_bit(SoftCommand::kContinuous);
+  if (commands.pump_start) given |= soft_command_bit(SoftCommand::kPumpStart);
+  if (commands.pump_stop) given |= soft_command_bit(SoftCommand::kPumpStop);
+  if (commands.stop) given |= soft_command_bit(SoftCommand::kStop);
+  for (const Direction d : commands.jog) {
+    if (d != Direction::kNone) given |= soft_command_bit(SoftCommand::kJog);
+  }
+  return static_cast<std::uint16_t>(given);
+}
+
 }  // namespace spoolstep::core
