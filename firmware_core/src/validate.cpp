@@ -140,6 +140,10 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
       return Status::error(StatusCode::kBadValue, "functions", i);
     if (centre_row(f.centre) == nullptr || !finite(f.extend_limit) || !finite(f.retract_limit))
       return Status::error(StatusCode::kBadValue, "functions", i);
+    // The release band must leave room between the two limits.
+    if (!finite(f.limit_release_band) || f.limit_release_band < 0.0f ||
+        (f.position_input != kNoIndex8 && !(f.limit_release_band < f.extend_limit - f.retract_limit)))
+      return Status::error(StatusCode::kBadValue, "functions", i);
     // A proportional valve's quick stop must be a ramp that ends.
     if (is_proportional(f.valve) && (f.quick_stop_us == 0 || f.quick_stop_us > kMaxQuickStopUs))
       return Status::error(StatusCode::kBadValue, "functions", i);

@@ -1152,7 +1152,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
   fc.retracted_end_input = member(f, path, "retracted_end") ? read_ref(f, path, "retracted_end") : core::kNoIndex8;
   if (const json* pos = member(f, path, "position"); pos != nullptr && expect_object(*pos, child(path, "position"))) {
     const std::string p = child(path, "position");
-    check_keys(*pos, p, {"input", "extend_limit", "retract_limit"});
+    check_keys(*pos, p, {"input", "extend_limit", "retract_limit", "release_band"});
     fc.position_input = read_ref(*pos, p, "input");
     const auto extend = read_number(*pos, p, "extend_limit");
     const auto retract = read_number(*pos, p, "retract_limit");
@@ -1174,6 +1174,15 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
                              name_view(ai.name), number_text(low), number_text(high), name_view(ai.unit)),
                  "The position input can never reach it; fix the limit or the input's range.");
           }
+        }
+        // Default: 1 % of the input's range (see FunctionConfig::limit_release_band).
+        const auto band = read_number(*pos, p, "release_band");
+        fc.limit_release_band = static_cast<float>(band ? *band : 0.01 * (high - low));
+        if (band && *band >= *extend - *retract) {
+          fail(child(p, "release_band"),
+               fmt::format("release_band ({}) must be less than the distance between the limits ({})", number_text(*band),
+                           number_text(*extend - *retract)),
+               "A limit is left once the position is back inside the window by the band.");
         }
       }
     }

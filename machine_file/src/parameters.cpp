@@ -214,6 +214,11 @@ constexpr std::array kTable = {
             "Extending stops at this position; inside the input range, above retract_limit.", ""},
   Parameter{"/functions/*/position/retract_limit", T::kNumber, "input's unit", kInObject, "", -1e9, 1e9, "",
             "Retracting stops at this position; inside the input range.", ""},
+  Parameter{"/functions/*/position/release_band", T::kNumber, "input's unit", kOpt, "", 0, 1e9, "",
+            "A reached position limit counts as reached until the position is back inside the window by this much "
+            "(absent: 1 % of the input's range); a motion stopped at its end moves towards it again only after its jog or step demand is released.",
+            // Hysteresis against a load ringing back out of the limit: common practice, no source.
+            "The band must exceed the transmitter's noise and the load's ring-back (common practice, no source); below the distance between the limits."},
   Parameter{"/functions/*/reversal_dwell_ms", T::kInteger, "ms", kOpt, "100", 0, 10000, "",
             "Both sides off at least this long before the direction reverses.", ""},
   Parameter{"/functions/*/quick_stop_ms", T::kInteger, "ms", kOpt, "100", 1, 10000, "",

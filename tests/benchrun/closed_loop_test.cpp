@@ -60,5 +60,87 @@ TEST(BenchOutput, RefusedSoftCommandIsANotice) {
   EXPECT_TRUE(has_notice(run, "soft command 'pump_start' refused")) << all_notices(run);
 }
 
+
+// ---------------------------------------------------------------------------
+// Position soft limits (issue 9 item 3).
+
+// The demo press changed so a held jog can reach its extend limit (480 mm):
+// no part under the ram, a closed centre that traps the oil on both sides
+// (so the 500 kg ram rings on its oil springs when the valve cuts), a jog
+// fast enough to ring, and the ram starting a little above the limit.
+json press_against_its_limit() {
+  json m = demo_machine();
+  json& press = m["functions"][1];
+  press["valve"]["centre"] = "closed";
+  press["jog"]["speed_percent"] = 60;
+  json& cyl = m["plant"]["cylinders"][1];
+  cyl.erase("load");
+  cyl["initial_position_mm"] = 400;
+  m["plant"]["valves"][1].erase("bleed_orifice_mm2");
+  return m;
+}
+
+json manual_jog_down(double from_s, double to_s, double duration_s) {
+  return scenario(duration_s, json::array({
+      json{{"at_s", 0.2}, {"pulse", "reset_pb"}},
+      json{{"at_s", 0.4}, {"pulse", "pump_start_pb"}},
+      json{{"at_s", from_s}, {"set", {{"jog_press_down_pb", true}}}},
+      json{{"at_s", to_s}, {"set", {{"jog_press_down_pb", false}}}}}));
+}
+
+// Holding jog-extend against the position limit: the valve cuts once at the
+// limit and stays shut while the jog is held, however the ram rings; the ram
+// ends near the limit and the trapped rod side stays below the relief
+// setting (ISO 4413: neither surge pressure nor loss of pressure shall cause
+// a hazard; clause number from memory).
+TEST(SoftLimit, HeldJogAgainstTheLimitCutsOnceAndDoesNotRatchet) {
+  int reopenings = 0;
+  bool cut = false;
+  double max_x_mm = 0.0;
+  double max_b_bar = 0.0;
+  const BenchRun run = run_bench(press_against_its_limit(), manual_jog_down(3.0, 9.0, 9.5),
+                                 [&](const hostsim::Plant& plant, const core::Diagnostics& d) {
+    const float cmd = d.functions[1].command;
+    if (cut && cmd > 0.0f && d.functions[1].target > 0.0f) ++reopenings;
+    if (cmd == 0.0f && plant.time_s() > 3.1) cut = cut || plant.cylinder_position("press_cyl") > 0.47;
+    max_x_mm = std::max(max_x_mm, plant.cylinder_position("press_cyl") * 1e3);
+    max_b_bar = std::max(max_b_bar, plant.node_pressure("press_cyl.B") * 1e-5);
+  });
+  ASSERT_TRUE(run.ok);
+  EXPECT_TRUE(cut) << "the jog never reached the limit";
+  EXPECT_EQ(reopenings, 0) << "the valve re-opened towards the limit while the jog was held";
+  EXPECT_LT(max_x_mm, 486.0) << "the ram crept past the 480 mm limit";
+  // Relief cracking 200 bar in the demo's plant section.
+  EXPECT_LT(max_b_bar, 200.0);
+}
+
+// Released, jogged back a little and pressed again, the jog may move towards
+// the limit only once the ram is back outside the release band (20 mm here):
+// inside it the limit still holds.
+TEST(SoftLimit, ReleasedJogPressedAgainInsideTheReleaseBandStaysStopped) {
+  json timeline = json::array({
+      json{{"at_s", 0.2}, {"pulse", "reset_pb"}},
+      json{{"at_s", 0.4}, {"pulse", "pump_start_pb"}},
+      json{{"at_s", 3.0}, {"set", {{"jog_press_down_pb", true}}}},
+      json{{"at_s", 5.8}, {"set", {{"jog_press_down_pb", false}}}},
+      json{{"at_s", 6.0}, {"set", {{"jog_press_up_pb", true}}}},
+      json{{"at_s", 6.04}, {"set", {{"jog_press_up_pb", false}}}},
+      json{{"at_s", 6.5}, {"set", {{"jog_press_down_pb", true}}}},
+      json{{"at_s", 8.0}, {"set", {{"jog_press_down_pb", false}}}}});
+  double max_target_after_repress = 0.0;
+  double x_at_repress_mm = 0.0;
+  json machine = press_against_its_limit();
+  machine["functions"][1]["position"]["release_band"] = 20;
+  const BenchRun run = run_bench(machine, scenario(8.5, timeline),
+                                 [&](const hostsim::Plant& plant, const core::Diagnostics& d) {
+    if (plant.time_s() < 6.5) x_at_repress_mm = plant.cylinder_position("press_cyl") * 1e3;
+    if (plant.time_s() > 6.5) max_target_after_repress = std::max(max_target_after_repress, double{d.functions[1].target});
+  });
+  ASSERT_TRUE(run.ok);
+  ASSERT_GT(x_at_repress_mm, 461.0) << "the ram should rest inside the release band before the second press";
+  ASSERT_LT(x_at_repress_mm, 479.0) << "the ram should rest inside the release band before the second press";
+  EXPECT_EQ(max_target_after_repress, 0.0) << "a fresh press inside the release band moved towards the limit";
+}
+
 }  // namespace
 }  // namespace spoolstep::benchrun::testing

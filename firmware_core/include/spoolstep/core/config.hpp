@@ -72,6 +72,13 @@ struct FunctionConfig {
   std::uint8_t position_input = kNoIndex8;       ///< analog input for the position window
   float extend_limit = 0.0f;    ///< position window, in the position input's unit; used when position_input set
   float retract_limit = 0.0f;
+  /// A position limit, once reached, counts as reached until the position is
+  /// back inside the window by this much (hysteresis), so a load ringing on
+  /// its oil springs cannot re-open the valve towards the limit. The band is
+  /// the machine's own: larger than the transmitter's noise and the load's
+  /// ring-back (common practice, no source); the loader's default is 1 % of
+  /// the position input's range.
+  float limit_release_band = 0.0f;
   std::uint32_t reversal_dwell_us = 0;  ///< both sides off at least this long before reversing
   std::uint32_t detent_pulse_us = 0;    ///< detented valves: coil pulse that shifts the spool
   std::uint32_t quick_stop_us = 0;      ///< full-scale decel time of a category 1/2 stop (proportional)

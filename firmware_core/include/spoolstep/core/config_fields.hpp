@@ -52,6 +52,7 @@ template <typename V> constexpr void each(V&& v, Of<FunctionConfig>) {
   v("position_input", &F::position_input);
   v("extend_limit", &F::extend_limit);
   v("retract_limit", &F::retract_limit);
+  v("limit_release_band", &F::limit_release_band);
   v("reversal_dwell_us", &F::reversal_dwell_us);
   v("detent_pulse_us", &F::detent_pulse_us);
   v("quick_stop_us", &F::quick_stop_us);
