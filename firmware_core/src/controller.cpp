@@ -685,7 +685,12 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
         break;
       }
     }
-    if (!is_proportional(f.valve)) speed = want == Direction::kNone ? 0.0f : 1.0f;
+    if (!is_proportional(f.valve)) {
+      speed = want == Direction::kNone ? 0.0f : 1.0f;
+    } else if (want != Direction::kNone && in_slowdown(i, in, want) && speed > f.slowdown_speed_percent * 0.01f) {
+      // Approaching the end: creep speed, reached on the ramp's deceleration.
+      speed = f.slowdown_speed_percent * 0.01f;
+    }
     const Direction requested = want;  // before any permissive or end of travel
 
     StopKind stop = StopKind::kNone;
@@ -763,6 +768,17 @@ bool Controller::at_end(std::uint8_t index, const InputImage& in, Direction side
   const std::uint8_t end = side == Direction::kExtend ? f.extended_end_input : f.retracted_end_input;
   if (end != kNoIndex8 && in.digital[end]) return true;
   return side == Direction::kExtend ? r.beyond_extend_limit : r.beyond_retract_limit;
+}
+
+bool Controller::in_slowdown(std::uint8_t index, const InputImage& in, Direction side) const {
+  const FunctionConfig& f = config_->functions[index];
+  const bool extend = side == Direction::kExtend;
+  const std::uint8_t input = extend ? f.extend_slowdown_input : f.retract_slowdown_input;
+  if (input != kNoIndex8 && in.digital[input]) return true;
+  const float zone = extend ? f.extend_slowdown : f.retract_slowdown;
+  if (zone == 0.0f || f.position_input == kNoIndex8) return false;
+  const float pos = diag_.analog_value[f.position_input];
+  return extend ? pos >= f.extend_limit - zone : pos <= f.retract_limit + zone;
 }
 
 void Controller::drive_function(std::uint8_t index, std::uint32_t dt_us) {

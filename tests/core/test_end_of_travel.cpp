@@ -79,5 +79,58 @@ TEST(EndOfTravel, ValidateRejectsABandWiderThanTheWindow) {
   EXPECT_FALSE(validate_config(c).is_ok());
 }
 
+// Slow-down: inside the zone the target drops to the creep speed and the
+// command follows on the ramp's deceleration (no jump).
+TEST(SlowDown, ZoneBeforeTheLimitLimitsTheSpeedOnTheDecelRamp) {
+  MachineConfig c = press_with_position();
+  c.functions[kPress].extend_slowdown = 30.0f;
+  c.functions[kPress].slowdown_speed_percent = 5.0f;
+  c.functions[kPress].jog_speed_percent = 80.0f;
+  Rig rig(c);
+  rig.arm(false);
+  rig.in.digital[kPressUp] = false;
+  rig.set_ma(kPressPosition, ma_at(300.0f));
+  rig.in.commands.jog[kPress] = Direction::kExtend;
+  rig.run_ms(300);
+  ASSERT_FLOAT_EQ(rig.diag().functions[kPress].command, 0.8f);
+  rig.set_ma(kPressPosition, ma_at(371.0f));  // inside the last 30 mm
+  rig.scan();
+  EXPECT_FLOAT_EQ(rig.diag().functions[kPress].target, 0.05f);
+  EXPECT_GT(rig.diag().functions[kPress].command, 0.78f) << "decelerates on the ramp, not in one scan";
+  rig.run_ms(100);  // normal ramp: 100 ms per full-scale decrease
+  EXPECT_FLOAT_EQ(rig.diag().functions[kPress].command, 0.05f);
+  EXPECT_GT(rig.out.prop[kPressYa].value, 0.0f) << "creeps on to the limit";
+}
+
+TEST(SlowDown, SwitchInputSlowsOnlyTheMotionTowardsItsEnd) {
+  MachineConfig c = press_with_position();
+  c.functions[kPress].retract_slowdown_input = kClampClosed;  // any spare input of the rig
+  c.functions[kPress].slowdown_speed_percent = 5.0f;
+  Rig rig(c);
+  rig.arm(false);
+  rig.in.digital[kPressUp] = false;
+  rig.set_ma(kPressPosition, ma_at(200.0f));
+  rig.in.digital[kClampClosed] = true;
+  rig.in.commands.jog[kPress] = Direction::kRetract;
+  rig.run_ms(300);
+  EXPECT_FLOAT_EQ(rig.diag().functions[kPress].target, -0.05f);
+  rig.in.commands.jog[kPress] = Direction::kNone;
+  rig.run_ms(300);
+  rig.in.commands.jog[kPress] = Direction::kExtend;
+  rig.run_ms(300);
+  EXPECT_FLOAT_EQ(rig.diag().functions[kPress].target, 0.2f) << "the extend motion is not slowed";
+}
+
+TEST(SlowDown, ValidateRejectsASlowDownWithoutCreepSpeedOrOnASolenoidValve) {
+  MachineConfig c = press_with_position();
+  c.functions[kPress].extend_slowdown = 30.0f;
+  EXPECT_FALSE(validate_config(c).is_ok()) << "no creep speed";
+  c.functions[kPress].slowdown_speed_percent = 5.0f;
+  EXPECT_TRUE(validate_config(c).is_ok());
+  c.functions[kClamp].retract_slowdown_input = kClampClosed;
+  c.functions[kClamp].slowdown_speed_percent = 5.0f;
+  EXPECT_FALSE(validate_config(c).is_ok()) << "a solenoid valve cannot creep";
+}
+
 }  // namespace
 }  // namespace spoolstep::core::testing

@@ -89,6 +89,7 @@ class Controller {
   void decide_demands(const InputImage& inputs, std::uint32_t now_us);
   void update_limits(std::uint8_t index);
   bool at_end(std::uint8_t index, const InputImage& inputs, Direction side) const;
+  bool in_slowdown(std::uint8_t index, const InputImage& inputs, Direction side) const;
   void drive_function(std::uint8_t index, std::uint32_t dt_us);
   void write_outputs(OutputImage& outputs) const;
   void enforce_output_invariants(OutputImage& outputs, std::uint32_t now_us);
