@@ -684,7 +684,13 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
         break;
       }
     }
-    if (!is_proportional(f.valve)) speed = want == Direction::kNone ? 0.0f : 1.0f;
+    if (!is_proportional(f.valve)) {
+      speed = want == Direction::kNone ? 0.0f : 1.0f;
+    } else if (want != Direction::kNone && in_slowdown(i, in, want) && speed > f.slowdown_speed_percent * 0.01f) {
+      // Approaching the end: creep speed, reached on the ramp's deceleration.
+      speed = f.slowdown_speed_percent * 0.01f;
+    }
+    const Direction requested = want;  // before any permissive or end of travel
 
     StopKind stop = StopKind::kNone;
     if (diag_.state == MachineState::kPowerUp || diag_.state == MachineState::kFaulted) {
@@ -709,22 +715,27 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
       want = Direction::kNone;
     }
     // End of travel and the position window cut the motion at once, also
-    // the side still moving while it decelerates.
-    auto at_end = [&](Direction side) {
-      const std::uint8_t end = side == Direction::kExtend ? f.extended_end_input : f.retracted_end_input;
-      bool reached = end != kNoIndex8 && in.digital[end];
-      if (f.position_input != kNoIndex8) {
-        const float pos = diag_.analog_value[f.position_input];
-        reached = reached || (side == Direction::kExtend ? pos >= f.extend_limit : pos <= f.retract_limit);
+    // the side still moving while it decelerates. A motion cut at its end
+    // stays cut until its demand is released: a load ringing back out of
+    // the limit must not re-open the valve towards it, or the rod ratchets
+    // past the limit and the trapped side's pressure climbs with each
+    // re-opening (ISO 4413: surge pressure shall not cause a hazard, from
+    // memory; IEC 60204-1 9.2.5.4 hold-to-run: a new press, from memory).
+    update_limits(i);
+    if (requested != Direction::kExtend) r.stopped_at_extend_end = false;
+    if (requested != Direction::kRetract) r.stopped_at_retract_end = false;
+    if (want != Direction::kNone) {
+      bool& stopped = want == Direction::kExtend ? r.stopped_at_extend_end : r.stopped_at_retract_end;
+      if (at_end(i, in, want)) {
+        if (r.side == want) log(now_us, EventCode::kEndOfTravel, i, static_cast<std::uint16_t>(want));
+        stopped = true;
       }
-      return reached;
-    };
-    if (want != Direction::kNone && at_end(want)) {
-      if (r.side == want) log(now_us, EventCode::kEndOfTravel, i, static_cast<std::uint16_t>(want));
-      stop = StopKind::kImmediate;
-      want = Direction::kNone;
+      if (stopped) {
+        stop = StopKind::kImmediate;
+        want = Direction::kNone;
+      }
     }
-    if (r.side != Direction::kNone && want != r.side && at_end(r.side)) stop = StopKind::kImmediate;
+    if (r.side != Direction::kNone && want != r.side && at_end(i, in, r.side)) stop = StopKind::kImmediate;
     // A category 0 permissive removes the valve's power (its enable) for as
     // long as it is lost, not only the command.
     r.enable_cut = (immediate_motions_ & (motion_bit(i, Direction::kExtend) |
@@ -738,6 +749,35 @@ void Controller::decide_demands(const InputImage& in, std::uint32_t now_us) {
     if (want != Direction::kNone) r.ramp_index = ramp;
   }
   if (hold_chain) apply_event(MachineEvent::kPermissiveHold, now_us);
+}
+
+void Controller::update_limits(std::uint8_t index) {
+  const FunctionConfig& f = config_->functions[index];
+  if (f.position_input == kNoIndex8) return;
+  FunctionRuntime& r = functions_[index];
+  const float pos = diag_.analog_value[f.position_input];
+  const float band = f.limit_release_band;
+  r.beyond_extend_limit = r.beyond_extend_limit ? pos > f.extend_limit - band : pos >= f.extend_limit;
+  r.beyond_retract_limit = r.beyond_retract_limit ? pos < f.retract_limit + band : pos <= f.retract_limit;
+}
+
+bool Controller::at_end(std::uint8_t index, const InputImage& in, Direction side) const {
+  const FunctionConfig& f = config_->functions[index];
+  const FunctionRuntime& r = functions_[index];
+  const std::uint8_t end = side == Direction::kExtend ? f.extended_end_input : f.retracted_end_input;
+  if (end != kNoIndex8 && in.digital[end]) return true;
+  return side == Direction::kExtend ? r.beyond_extend_limit : r.beyond_retract_limit;
+}
+
+bool Controller::in_slowdown(std::uint8_t index, const InputImage& in, Direction side) const {
+  const FunctionConfig& f = config_->functions[index];
+  const bool extend = side == Direction::kExtend;
+  const std::uint8_t input = extend ? f.extend_slowdown_input : f.retract_slowdown_input;
+  if (input != kNoIndex8 && in.digital[input]) return true;
+  const float zone = extend ? f.extend_slowdown : f.retract_slowdown;
+  if (zone == 0.0f || f.position_input == kNoIndex8) return false;
+  const float pos = diag_.analog_value[f.position_input];
+  return extend ? pos >= f.extend_limit - zone : pos <= f.retract_limit + zone;
 }
 
 void Controller::drive_function(std::uint8_t index, std::uint32_t dt_us) {

@@ -105,6 +105,8 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
         !io_ok(f.extended_end_input, c.digital_input_count) ||
         !io_ok(f.retracted_end_input, c.digital_input_count) ||
         !io_ok(f.position_input, c.analog_input_count) || !cond_ok(f.jog_extend, c.node_count) ||
+        !io_ok(f.extend_slowdown_input, c.digital_input_count) ||
+        !io_ok(f.retract_slowdown_input, c.digital_input_count) ||
         !cond_ok(f.jog_retract, c.node_count))
       return Status::error(StatusCode::kIndexOutOfRange, "functions", i);
     if (!claim(f.coil_extend, coils_owned) || !claim(f.coil_retract, coils_owned) ||
@@ -139,6 +141,21 @@ Status check_functions(const MachineConfig& c, std::uint64_t& coils_owned) {
     if (!(f.jog_speed_percent >= 0.0f && f.jog_speed_percent <= 100.0f))
       return Status::error(StatusCode::kBadValue, "functions", i);
     if (centre_row(f.centre) == nullptr || !finite(f.extend_limit) || !finite(f.retract_limit))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    // The release band must leave room between the two limits.
+    if (!finite(f.limit_release_band) || f.limit_release_band < 0.0f ||
+        (f.position_input != kNoIndex8 && !(f.limit_release_band < f.extend_limit - f.retract_limit)))
+      return Status::error(StatusCode::kBadValue, "functions", i);
+    // A slow-down meters, so it needs a proportional valve, a creep speed,
+    // and zones inside the window (position zones need the transmitter).
+    const bool zones = f.extend_slowdown != 0.0f || f.retract_slowdown != 0.0f;
+    const bool slows = zones || f.extend_slowdown_input != kNoIndex8 || f.retract_slowdown_input != kNoIndex8;
+    if (!finite(f.extend_slowdown) || !finite(f.retract_slowdown) || f.extend_slowdown < 0.0f ||
+        f.retract_slowdown < 0.0f || (zones && f.position_input == kNoIndex8) ||
+        (zones && !(f.extend_slowdown < f.extend_limit - f.retract_limit &&
+                    f.retract_slowdown < f.extend_limit - f.retract_limit)) ||
+        (slows && (!is_proportional(f.valve) ||
+                   !(f.slowdown_speed_percent > 0.0f && f.slowdown_speed_percent <= 100.0f))))
       return Status::error(StatusCode::kBadValue, "functions", i);
     // A proportional valve's quick stop must be a ramp that ends.
     if (is_proportional(f.valve) && (f.quick_stop_us == 0 || f.quick_stop_us > kMaxQuickStopUs))

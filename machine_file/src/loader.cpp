@@ -1133,7 +1133,7 @@ void Loader::load_valve(const json& v, const std::string& path, core::FunctionCo
 void Loader::load_function(const json& f, const std::string& path, std::uint8_t index) {
   auto& fc = cfg_.functions[index];
   const std::string fname(name_view(fc.name));
-  check_keys(f, path, {"name", "description", "valve", "extended_end", "retracted_end", "position",
+  check_keys(f, path, {"name", "description", "valve", "extended_end", "retracted_end", "position", "slowdown",
                        "reversal_dwell_ms", "quick_stop_ms", "jog", "ramps"});
   read_string(f, path, "description");
   const json* v = member(f, path, "valve");
@@ -1152,7 +1152,7 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
   fc.retracted_end_input = member(f, path, "retracted_end") ? read_ref(f, path, "retracted_end") : core::kNoIndex8;
   if (const json* pos = member(f, path, "position"); pos != nullptr && expect_object(*pos, child(path, "position"))) {
     const std::string p = child(path, "position");
-    check_keys(*pos, p, {"input", "extend_limit", "retract_limit"});
+    check_keys(*pos, p, {"input", "extend_limit", "retract_limit", "release_band"});
     fc.position_input = read_ref(*pos, p, "input");
     const auto extend = read_number(*pos, p, "extend_limit");
     const auto retract = read_number(*pos, p, "retract_limit");
@@ -1175,6 +1175,40 @@ void Loader::load_function(const json& f, const std::string& path, std::uint8_t 
                  "The position input can never reach it; fix the limit or the input's range.");
           }
         }
+        // Default: 1 % of the input's range (see FunctionConfig::limit_release_band).
+        const auto band = read_number(*pos, p, "release_band");
+        fc.limit_release_band = static_cast<float>(band ? *band : 0.01 * (high - low));
+        if (band && *band >= *extend - *retract) {
+          fail(child(p, "release_band"),
+               fmt::format("release_band ({}) must be less than the distance between the limits ({})", number_text(*band),
+                           number_text(*extend - *retract)),
+               "A limit is left once the position is back inside the window by the band.");
+        }
+      }
+    }
+  }
+  if (const json* slow = member(f, path, "slowdown"); slow != nullptr && expect_object(*slow, child(path, "slowdown"))) {
+    const std::string p = child(path, "slowdown");
+    check_keys(*slow, p, {"description", "extend_zone", "retract_zone", "extend_input", "retract_input", "speed_percent"});
+    read_string(*slow, p, "description");
+    if (known_kind && !proportional) {
+      fail(p, "applies to proportional valves only", "A solenoid valve shifts fully and cannot creep: remove 'slowdown'.");
+    }
+    fc.extend_slowdown = static_cast<float>(read_number(*slow, p, "extend_zone").value_or(0.0));
+    fc.retract_slowdown = static_cast<float>(read_number(*slow, p, "retract_zone").value_or(0.0));
+    if (member(*slow, p, "extend_input")) fc.extend_slowdown_input = read_ref(*slow, p, "extend_input");
+    if (member(*slow, p, "retract_input")) fc.retract_slowdown_input = read_ref(*slow, p, "retract_input");
+    fc.slowdown_speed_percent = static_cast<float>(read_number(*slow, p, "speed_percent").value_or(0.0));
+    const double window = static_cast<double>(fc.extend_limit) - static_cast<double>(fc.retract_limit);
+    for (const char* key : {"extend_zone", "retract_zone"}) {
+      if (!slow->contains(key)) continue;
+      if (fc.position_input == core::kNoIndex8) {
+        fail(child(p, key), "a slow-down zone needs the function's position transmitter",
+             "Add \"position\": {\"input\": ...}, or use a slow-down switch (extend_input, retract_input).");
+      } else if (const auto zone = read_number(*slow, p, key); zone && window > 0.0 && *zone >= window) {
+        fail(child(p, key), fmt::format("{} ({}) must be less than the distance between the limits ({})", key,
+                                        number_text(*zone), number_text(window)),
+             "The zone is measured from the limit the motion approaches.");
       }
     }
   }

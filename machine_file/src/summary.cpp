@@ -190,10 +190,21 @@ std::string summarize(const core::MachineConfig& c) {
     out << fmt::format("      ends: extended {}, retracted {}", din_text(c, f.extended_end_input),
                        din_text(c, f.retracted_end_input));
     if (f.position_input != core::kNoIndex8) {
-      out << fmt::format("; position {} window {:g} to {:g}", name(c.analog_inputs[f.position_input].name),
-                         f.retract_limit, f.extend_limit);
+      out << fmt::format("; position {} window {:g} to {:g} (release band {:g})",
+                         name(c.analog_inputs[f.position_input].name), f.retract_limit, f.extend_limit,
+                         f.limit_release_band);
     }
     out << fmt::format("; reversal dwell {}\n", ms(f.reversal_dwell_us));
+    if (f.slowdown_speed_percent > 0.0f) {
+      auto zone = [&](float length, std::uint8_t input) {
+        std::string text;
+        if (length > 0.0f) text = fmt::format("the last {:g}", length);
+        if (input != core::kNoIndex8) text += (text.empty() ? "" : " or ") + fmt::format("while {}", din_text(c, input));
+        return text.empty() ? std::string("no slow-down") : text;
+      };
+      out << fmt::format("      slow-down to {:g} %: extending {}; retracting {}\n", f.slowdown_speed_percent,
+                         zone(f.extend_slowdown, f.extend_slowdown_input), zone(f.retract_slowdown, f.retract_slowdown_input));
+    }
     if (f.jog_extend != core::kNoCondition || f.jog_retract != core::kNoCondition) {
       out << fmt::format("      jog extend when {}; jog retract when {}\n", cond(f.jog_extend), cond(f.jog_retract));
     }
@@ -364,6 +375,23 @@ std::vector<std::string> configuration_warnings(const core::MachineConfig& c) {
         "two-hand '{}' starts the cycle, but releasing a hand does not hold {}: those motions go on without the "
         "hands (release_holds); make sure none of them is hazardous",
         name(c.two_hand[i].name), guard_text(c, free_running)));
+  }
+  for (std::uint8_t i = 0; i < c.function_count; ++i) {
+    const core::FunctionConfig& f = c.functions[i];
+    if (!core::is_proportional(f.valve)) continue;
+    // A step ending on an end switch cuts the valve there in one scan; from
+    // full speed the trapped oil peaks at v*sqrt(beta*m/V) (textbook physics).
+    const bool extend_unslowed = f.extended_end_input != core::kNoIndex8 && f.extend_slowdown == 0.0f &&
+                                 f.extend_slowdown_input == core::kNoIndex8;
+    const bool retract_unslowed = f.retracted_end_input != core::kNoIndex8 && f.retract_slowdown == 0.0f &&
+                                  f.retract_slowdown_input == core::kNoIndex8;
+    for (const auto& [unslowed, side] : {std::pair{extend_unslowed, "extended"}, std::pair{retract_unslowed, "retracted"}}) {
+      if (!unslowed) continue;
+      warnings.push_back(fmt::format(
+          "function '{}' stops at its {} end switch in one scan from whatever speed it has: give it a slow-down "
+          "(slowdown.{}_zone or slowdown.{}_input) so it arrives at creep speed",
+          name(f.name), side, side[0] == 'e' ? "extend" : "retract", side[0] == 'e' ? "extend" : "retract"));
+    }
   }
   return warnings;
 }

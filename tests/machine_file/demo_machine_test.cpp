@@ -81,7 +81,9 @@ TEST_F(PressCell, ValvesResolveToTheirOutputsAndCentres) {
   EXPECT_EQ(press.prop_retract, find_prop_output(config(), "press_yb"));
   EXPECT_EQ(press.enable_coil, find_coil(config(), "press_valve_enable"));
   EXPECT_EQ(press.coil_extend, core::kNoIndex8);
-  EXPECT_FLOAT_EQ(press.current_extend.crack_ma, 300.0f);
+  EXPECT_FLOAT_EQ(press.current_extend.crack_ma, 280.0f);
+  EXPECT_FLOAT_EQ(press.retract_slowdown, 40.0f);
+  EXPECT_FLOAT_EQ(press.slowdown_speed_percent, 3.0f);
   EXPECT_FLOAT_EQ(press.current_extend.max_ma, 800.0f);
   EXPECT_FLOAT_EQ(press.dither_amplitude_ma, 40.0f);
   EXPECT_FLOAT_EQ(press.dither_frequency_hz, 120.0f);
@@ -232,7 +234,7 @@ TEST_F(PressCell, SummaryShowsValvesGuardsAndTransitions) {
   const std::string text = summarize(config());
   for (const char* expected :
        {"press: 4/3 proportional, two solenoids, bleed centre", "clamp: 4/3 solenoid, spring-centred, closed centre",
-        "press_ya 300..800 mA", "ramp force: s-curve", "guards press.extend", "healthy when mode manual or two-hand main held",
+        "press_ya 280..800 mA", "slow-down to 3 %: extending no slow-down; retracting the last 40", "ramp force: s-curve", "guards press.extend", "healthy when mode manual or two-hand main held",
         "-> dwell when press_pressure > 180 bar (hysteresis 5)", "-> clamp when interlock guard_closed and power unit ready",
         "healthy when not (filter_clogged for 5000 ms)", "0 wait_start (initial)"}) {
     EXPECT_NE(text.find(expected), std::string::npos) << "missing: " << expected << "\n" << text;

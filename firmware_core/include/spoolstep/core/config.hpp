@@ -72,6 +72,27 @@ struct FunctionConfig {
   std::uint8_t position_input = kNoIndex8;       ///< analog input for the position window
   float extend_limit = 0.0f;    ///< position window, in the position input's unit; used when position_input set
   float retract_limit = 0.0f;
+  /// A position limit, once reached, counts as reached until the position is
+  /// back inside the window by this much (hysteresis), so a load ringing on
+  /// its oil springs cannot re-open the valve towards the limit. The band is
+  /// the machine's own: larger than the transmitter's noise and the load's
+  /// ring-back (common practice, no source); the loader's default is 1 % of
+  /// the position input's range.
+  float limit_release_band = 0.0f;
+  /// Slow-down before an end of travel (proportional valves only): inside a
+  /// zone the motion's speed is limited to slowdown_speed_percent, reached on
+  /// its ramp's deceleration, so the cut at the end switch or the limit is
+  /// made from creep speed. Cutting a moving mass at full speed traps it on
+  /// the oil's spring: the peak is v*sqrt(beta*m/V) above the line pressure
+  /// (hydraulic spring, textbook physics). A zone's length is the machine's
+  /// (its speed, its mass, its decel ramp), so the file sets it; 0 or no
+  /// input: no slow-down (`spoolstep check` warns for a proportional
+  /// function with an end of travel and no slow-down).
+  float extend_slowdown = 0.0f;   ///< zone before extend_limit, in the position input's unit (0: none)
+  float retract_slowdown = 0.0f;  ///< zone after retract_limit, in the position input's unit (0: none)
+  std::uint8_t extend_slowdown_input = kNoIndex8;   ///< digital input, true = inside the zone before the extended end
+  std::uint8_t retract_slowdown_input = kNoIndex8;  ///< digital input, true = inside the zone before the retracted end
+  float slowdown_speed_percent = 0.0f;  ///< creep speed inside a zone, percent of full valve opening
   std::uint32_t reversal_dwell_us = 0;  ///< both sides off at least this long before reversing
   std::uint32_t detent_pulse_us = 0;    ///< detented valves: coil pulse that shifts the spool
   std::uint32_t quick_stop_us = 0;      ///< full-scale decel time of a category 1/2 stop (proportional)

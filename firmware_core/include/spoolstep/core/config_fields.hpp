@@ -52,6 +52,12 @@ template <typename V> constexpr void each(V&& v, Of<FunctionConfig>) {
   v("position_input", &F::position_input);
   v("extend_limit", &F::extend_limit);
   v("retract_limit", &F::retract_limit);
+  v("limit_release_band", &F::limit_release_band);
+  v("extend_slowdown", &F::extend_slowdown);
+  v("retract_slowdown", &F::retract_slowdown);
+  v("extend_slowdown_input", &F::extend_slowdown_input);
+  v("retract_slowdown_input", &F::retract_slowdown_input);
+  v("slowdown_speed_percent", &F::slowdown_speed_percent);
   v("reversal_dwell_us", &F::reversal_dwell_us);
   v("detent_pulse_us", &F::detent_pulse_us);
   v("quick_stop_us", &F::quick_stop_us);

@@ -59,6 +59,14 @@ class Controller {
     // again (set on entering manual and when a permissive stopped it).
     bool rearm_extend = true;
     bool rearm_retract = true;
+    // Position limits with hysteresis: reached until the position is back
+    // inside the window by limit_release_band.
+    bool beyond_extend_limit = false;
+    bool beyond_retract_limit = false;
+    // A motion cut at its end of travel stays off until its demand is
+    // released (the jog let go, the step left), however the load rings.
+    bool stopped_at_extend_end = false;
+    bool stopped_at_retract_end = false;
   };
 
   void evaluate_conditions(const InputImage& inputs, std::uint32_t dt_us);
@@ -79,6 +87,9 @@ class Controller {
   void run_sequence(std::uint32_t dt_us, std::uint32_t now_us);
   void update_power_unit(std::uint32_t dt_us, std::uint32_t now_us);
   void decide_demands(const InputImage& inputs, std::uint32_t now_us);
+  void update_limits(std::uint8_t index);
+  bool at_end(std::uint8_t index, const InputImage& inputs, Direction side) const;
+  bool in_slowdown(std::uint8_t index, const InputImage& inputs, Direction side) const;
   void drive_function(std::uint8_t index, std::uint32_t dt_us);
   void write_outputs(OutputImage& outputs) const;
   void enforce_output_invariants(OutputImage& outputs, std::uint32_t now_us);
